@@ -1,0 +1,1 @@
+"""kinetic: kinetic-theory thermal conductivity of solids."""

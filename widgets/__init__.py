@@ -1,0 +1,1 @@
+"""The kinetic workbench (Jupyter widgets)."""
