@@ -1,0 +1,146 @@
+"""Phonon branches: Debye (linear) or sine (Born-von Karman) dispersion.
+
+A :class:`Branch` stands for one, two or three acoustic polarisations sharing a
+dispersion relation omega(q). It is described by its sound velocity ``v0`` (the
+slope at q -> 0) and its Debye temperature ``theta`` (the maximum phonon
+frequency, ``omega_max = kB theta / hbar``). The engine integrates over the
+reduced wavevector u = q / q_max in (0, 1], so any monotonic dispersion fits the
+same quadrature.
+
+* ``"debye"``: omega = v0 q, q_max = omega_max / v0; group velocity v0.
+* ``"sine"``: omega = omega_max sin(pi u / 2), q_max = pi omega_max / (2 v0)
+  (so the slope at q -> 0 is v0); group velocity v0 cos(pi u / 2) falls to zero
+  at the zone edge. Born & von Karman's one-dimensional chain, used for
+  phonon transport with a Debye-sphere zone by e.g. Chung, McGaughey & Kaviany,
+  J. Heat Transfer 126, 376 (2004).
+
+With ``theta = hbar v0 (6 pi^2 n)^(1/3) / kB`` a Debye branch holds exactly
+``polarizations`` modes per atom of density ``n`` (Debye's counting).
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import numpy as np
+from scipy.constants import hbar, k as kB
+
+from ._validate import positive
+from .errors import ParameterError
+
+DISPERSIONS = ("debye", "sine")
+
+
+@dataclass(frozen=True)
+class Branch:
+    """An acoustic phonon branch (one to three polarisations).
+
+    Parameters
+    ----------
+    velocity : float
+        Sound velocity v0, the slope d omega / dq at q -> 0 [m s^-1].
+    debye_temperature : float
+        Branch Debye temperature theta; omega_max = kB theta / hbar [K].
+    polarizations : int
+        Number of polarisations this branch stands for (1, 2 or 3).
+    dispersion : {"debye", "sine"}
+        Shape of omega(q); see the module docstring.
+    name : str
+        Label used in per-branch results (``"L"``, ``"T"``, ``"avg"``).
+
+    Raises
+    ------
+    ParameterError
+        For a non-positive velocity or temperature, a polarisation count
+        outside 1..3 or an unknown dispersion.
+
+    Examples
+    --------
+    >>> b = Branch(5000.0, 400.0)
+    >>> round(b.omega_max / 1e13, 4)
+    5.2379
+    """
+
+    velocity: float
+    debye_temperature: float
+    polarizations: int = 3
+    dispersion: str = "debye"
+    name: str = "avg"
+
+    def __post_init__(self):
+        object.__setattr__(self, "velocity", positive("velocity", self.velocity, unit="m/s"))
+        object.__setattr__(
+            self, "debye_temperature", positive("debye_temperature", self.debye_temperature, unit="K")
+        )
+        if self.polarizations not in (1, 2, 3):
+            raise ParameterError(f"polarizations must be 1, 2 or 3, got {self.polarizations!r}")
+        if self.dispersion not in DISPERSIONS:
+            raise ParameterError(
+                f"dispersion must be one of {', '.join(DISPERSIONS)}, got {self.dispersion!r}"
+            )
+
+    @property
+    def omega_max(self) -> float:
+        """Largest angular frequency of the branch [rad s^-1]."""
+        return kB * self.debye_temperature / hbar
+
+    @property
+    def q_max(self) -> float:
+        """Zone-edge wavevector of the branch's Debye sphere [m^-1]."""
+        if self.dispersion == "sine":
+            return np.pi * self.omega_max / (2.0 * self.velocity)
+        return self.omega_max / self.velocity
+
+    # --- functions of the reduced wavevector u = q / q_max in (0, 1] -------------
+    def omega_of_u(self, u):
+        """Angular frequency at reduced wavevector u [rad s^-1]."""
+        if self.dispersion == "sine":
+            return self.omega_max * np.sin(0.5 * np.pi * u)
+        return self.omega_max * u
+
+    def group_velocity_of_u(self, u):
+        """Group velocity d omega / dq at reduced wavevector u [m s^-1].
+
+        For a Debye branch this is the constant ``velocity`` (a float, which
+        broadcasts against any array).
+        """
+        if self.dispersion == "sine":
+            return self.velocity * np.cos(0.5 * np.pi * u)
+        return self.velocity
+
+    def u_of_omega(self, omega):
+        """Inverse of :meth:`omega_of_u`; omega is clipped to [0, omega_max]."""
+        r = np.clip(np.asarray(omega, dtype=float) / self.omega_max, 0.0, 1.0)
+        if self.dispersion == "sine":
+            return (2.0 / np.pi) * np.arcsin(r)
+        return r
+
+    def group_velocity(self, omega):
+        """Group velocity at angular frequency omega [m s^-1]."""
+        return self.group_velocity_of_u(self.u_of_omega(omega))
+
+    def phase_velocity(self, omega):
+        """Phase velocity omega / q at angular frequency omega [m s^-1]."""
+        u = self.u_of_omega(omega)
+        w = self.omega_of_u(u)
+        q = u * self.q_max
+        with np.errstate(divide="ignore", invalid="ignore"):
+            vp = np.where(q > 0, w / np.where(q > 0, q, 1.0), self.velocity)
+        return vp
+
+    @property
+    def mode_density(self) -> float:
+        """Number of modes per unit volume held by the branch [m^-3]."""
+        return self.polarizations * self.q_max**3 / (6.0 * np.pi**2)
+
+    def to_dict(self) -> dict:
+        return {
+            "velocity": self.velocity,
+            "debye_temperature": self.debye_temperature,
+            "polarizations": self.polarizations,
+            "dispersion": self.dispersion,
+            "name": self.name,
+        }
+
+    @classmethod
+    def from_dict(cls, d: dict) -> "Branch":
+        return cls(**d)
