@@ -1,0 +1,197 @@
+"""Materials: host properties for lattice models, with presets from published data.
+
+``get(name)`` returns a :class:`Material` built from :mod:`kinetic.presets`,
+where every number carries its published source (``material.sources`` keeps
+them). ``names()`` lists the presets. Users define their own with
+``Material(...)``.
+
+Branches. One averaged branch uses the Debye-average sound velocity and the
+material's Debye temperature (Callaway's formulation). Split branches use the
+longitudinal and transverse velocities, each with a Debye cutoff at the same
+Debye-sphere radius q_D = (6 pi^2 n)^(1/3) (n atoms per volume), so each
+branch holds its own share of modes: theta_b = hbar v_b q_D / kB. This is
+the Debye counting, not the zone-boundary temperatures some split-branch
+papers use (see ``theta_longitudinal`` / ``theta_transverse`` to override).
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass, field, replace
+from typing import Mapping
+
+import numpy as np
+from scipy.constants import hbar, k as kB
+
+from ._validate import positive
+from .dispersion import Branch
+from .errors import ParameterError
+from .presets import ALIASES, PRESETS
+
+__all__ = ["Material", "get", "names"]
+
+
+@dataclass(frozen=True)
+class Material:
+    """Host-crystal properties used by the lattice model and the estimators.
+
+    Parameters
+    ----------
+    name : str
+        Label (preset key or your own).
+    atomic_mass : float
+        Mean mass per atom [u].
+    volume_per_atom : float
+        V0 [m^3].
+    debye_temperature : float
+        theta_D [K].
+    velocity_longitudinal, velocity_transverse : float, optional
+        Direction-averaged sound velocities [m s^-1]; needed for split branches.
+    velocity_debye : float, optional
+        Debye-average velocity, 3/v_D^3 = 1/v_L^3 + 2/v_T^3 [m s^-1]; computed
+        from v_L, v_T when not given.
+    gruneisen : float, optional
+        Grüneisen parameter used by ``Umklapp.from_material`` [dimensionless].
+    atoms_per_cell : int
+        Atoms in the primitive cell (Slack's n).
+    composition : mapping, optional
+        Element -> atoms per formula unit, e.g. ``{"Mg": 2, "Si": 1}``.
+    theta_longitudinal, theta_transverse : float, optional
+        Branch Debye temperatures overriding the Debye counting [K].
+    kappa_300K : float, optional
+        A reference room-temperature conductivity [W m^-1 K^-1].
+    sources : mapping
+        Field -> where the number comes from.
+    formula : str
+    """
+
+    name: str
+    atomic_mass: float
+    volume_per_atom: float
+    debye_temperature: float
+    velocity_longitudinal: float | None = None
+    velocity_transverse: float | None = None
+    velocity_debye: float | None = None
+    gruneisen: float | None = None
+    atoms_per_cell: int = 1
+    composition: Mapping | None = None
+    theta_longitudinal: float | None = None
+    theta_transverse: float | None = None
+    kappa_300K: float | None = None
+    sources: Mapping = field(default_factory=dict)
+    formula: str = ""
+
+    def __post_init__(self):
+        positive(f"{self.name}.atomic_mass", self.atomic_mass, unit="u")
+        positive(f"{self.name}.volume_per_atom", self.volume_per_atom, unit="m^3")
+        positive(f"{self.name}.debye_temperature", self.debye_temperature, unit="K")
+        for f in ("velocity_longitudinal", "velocity_transverse", "velocity_debye", "gruneisen",
+                  "theta_longitudinal", "theta_transverse", "kappa_300K"):
+            v = getattr(self, f)
+            if v is not None:
+                object.__setattr__(self, f, float(positive(f"{self.name}.{f}", v)))
+        if int(self.atoms_per_cell) != self.atoms_per_cell or self.atoms_per_cell < 1:
+            raise ParameterError(f"{self.name}.atoms_per_cell must be a whole number >= 1, got {self.atoms_per_cell!r}")
+        if self.velocity_debye is None and self.velocity_longitudinal and self.velocity_transverse:
+            vd = (3.0 / (self.velocity_longitudinal**-3 + 2.0 * self.velocity_transverse**-3)) ** (1 / 3)
+            object.__setattr__(self, "velocity_debye", vd)
+        if self.velocity_debye is None:
+            # Debye's relation theta = hbar v q_D / kB, q_D = (6 pi^2 / V0)^(1/3)
+            object.__setattr__(self, "velocity_debye", kB * self.debye_temperature / (hbar * self.q_debye))
+
+    @property
+    def number_density(self) -> float:
+        """Atoms per volume [m^-3]."""
+        return 1.0 / self.volume_per_atom
+
+    @property
+    def q_debye(self) -> float:
+        """Debye wavevector (6 pi^2 n)^(1/3) [m^-1]."""
+        return (6.0 * np.pi**2 * self.number_density) ** (1.0 / 3.0)
+
+    @property
+    def has_split_velocities(self) -> bool:
+        return self.velocity_longitudinal is not None and self.velocity_transverse is not None
+
+    def branches(self, split: bool = False, dispersion: str = "debye") -> list:
+        """Phonon branches: one averaged branch, or longitudinal + transverse."""
+        if not split:
+            return [Branch(self.velocity_debye, self.debye_temperature, 3, dispersion=dispersion, name="avg")]
+        if not self.has_split_velocities:
+            raise ParameterError(
+                f"material {self.name!r} has no longitudinal/transverse velocities; "
+                "use split_branches=False or give velocity_longitudinal and velocity_transverse"
+            )
+        thL = self.theta_longitudinal or hbar * self.velocity_longitudinal * self.q_debye / kB
+        thT = self.theta_transverse or hbar * self.velocity_transverse * self.q_debye / kB
+        return [
+            Branch(self.velocity_longitudinal, thL, 1, dispersion=dispersion, name="L"),
+            Branch(self.velocity_transverse, thT, 2, dispersion=dispersion, name="T"),
+        ]
+
+    def with_values(self, **kw) -> "Material":
+        return replace(self, **kw)
+
+    def to_dict(self) -> dict:
+        d = {k: getattr(self, k) for k in (
+            "name", "atomic_mass", "volume_per_atom", "debye_temperature", "velocity_longitudinal",
+            "velocity_transverse", "velocity_debye", "gruneisen", "atoms_per_cell",
+            "theta_longitudinal", "theta_transverse", "kappa_300K", "formula")}
+        d["composition"] = dict(self.composition) if self.composition else None
+        return d
+
+    @classmethod
+    def from_dict(cls, d: Mapping) -> "Material":
+        return cls(**dict(d))
+
+
+def _value(entry):
+    return None if entry is None else entry.get("value")
+
+
+def names() -> list:
+    """Preset names, e.g. ``["Si", "Ge", "C", ...]``."""
+    return list(PRESETS)
+
+
+def _key(name: str) -> str:
+    if name in PRESETS:
+        return name
+    k = ALIASES.get(str(name).lower())
+    if k is None:
+        for p in PRESETS:
+            if p.lower() == str(name).lower():
+                return p
+        raise ParameterError(
+            f"unknown material {name!r}; presets are: {', '.join(PRESETS)} (aliases: {', '.join(ALIASES)})"
+        )
+    return k
+
+
+def get(name: str) -> Material:
+    """A preset material by name (case-insensitive; "diamond" works for C).
+
+    The Grüneisen parameter is the preset's thermodynamic one where known,
+    otherwise the Slack-fit value (marked "from memory" in ``sources``).
+    """
+    key = _key(name)
+    p = PRESETS[key]
+    g = _value(p.get("gruneisen"))
+    g_src = p.get("gruneisen", {})
+    if g is None and _value(p.get("gruneisen_slack")) is not None:
+        g, g_src = _value(p["gruneisen_slack"]), p["gruneisen_slack"]
+    sources = {f: f"{e.get('source', '')} ({e.get('how', '')})" for f, e in p.items() if isinstance(e, dict)}
+    sources["gruneisen"] = f"{g_src.get('source', '')} ({g_src.get('how', '')})" if g_src else "unknown"
+    return Material(
+        name=key,
+        formula=str(_value(p.get("formula")) or key),
+        atomic_mass=_value(p["atomic_mass"]),
+        volume_per_atom=_value(p["lattice_volume_per_atom"]),
+        debye_temperature=_value(p["debye_temperature"]),
+        velocity_longitudinal=_value(p.get("velocity_longitudinal")),
+        velocity_transverse=_value(p.get("velocity_transverse")),
+        velocity_debye=_value(p.get("velocity_debye")),
+        gruneisen=g,
+        atoms_per_cell=int(_value(p.get("atoms_per_cell")) or 1),
+        composition=_value(p.get("composition")),
+        kappa_300K=_value(p.get("kappa_300K")),
+        sources=sources,
+    )
