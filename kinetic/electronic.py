@@ -39,7 +39,7 @@ from scipy.special import roots_jacobi as _roots_jacobi
 from scipy.special import roots_legendre as _roots_legendre
 from scipy.special import zeta as _zeta
 
-from ._validate import as_float_array, nonnegative, positive
+from ._validate import as_float_array
 from .errors import DataError, ParameterError
 
 __all__ = [
@@ -113,10 +113,34 @@ _ETA_INV_MAX = 1.0e5
 # small helpers
 # ---------------------------------------------------------------------------
 
+def _sign_check(name: str, value, unit: str, allow_zero: bool) -> np.ndarray:
+    """Finite and > 0 (or >= 0); the message names the first bad value and its index."""
+    arr = as_float_array(name, value)
+    bad = ~np.isfinite(arr) | ((arr < 0) if allow_zero else (arr <= 0))
+    if np.any(bad):
+        first = float(arr[bad].flat[0])
+        where = ""
+        if arr.ndim:
+            idx = tuple(int(i) for i in np.argwhere(bad)[0])
+            where = f" at index {idx[0] if len(idx) == 1 else idx} of an array of shape {arr.shape}"
+        kind = "non-negative" if allow_zero else "positive"
+        u = f" [{unit}]" if unit else ""
+        raise ParameterError(f"{name} must be finite and {kind}{u}, got {first!r}{where}")
+    return arr
+
+
+def positive(name: str, value, *, unit: str = "") -> np.ndarray:
+    return _sign_check(name, value, unit, allow_zero=False)
+
+
+def nonnegative(name: str, value, *, unit: str = "") -> np.ndarray:
+    return _sign_check(name, value, unit, allow_zero=True)
+
+
 def _finite(name: str, value, unit: str = "") -> np.ndarray:
     arr = as_float_array(name, value)
     if not np.all(np.isfinite(arr)):
-        bad = arr[~np.isfinite(arr)].flat[0] if arr.ndim else arr.item()
+        bad = float(arr[~np.isfinite(arr)].flat[0])
         u = f" [{unit}]" if unit else ""
         raise ParameterError(f"{name} must be finite{u}, got {bad!r}")
     return arr
@@ -227,7 +251,7 @@ def _series_scaled(js, eta):
     coef = np.array([_gamma(j + 1.0) * (-1.0) ** (k + 1) / k ** (j + 1.0) for j in js])  # (nj, K)
     with np.errstate(under="ignore", over="ignore"):   # eta*k may reach -inf: exp gives 0
         powers = np.exp(np.multiply.outer(eta, k - 1.0))                                 # (n, K)
-    return coef @ powers.T
+        return coef @ powers.T
 
 
 def _quad_values(js, eta):
