@@ -129,11 +129,13 @@ def _sign_check(name: str, value, unit: str, allow_zero: bool) -> np.ndarray:
     return arr
 
 
-def positive(name: str, value, *, unit: str = "") -> np.ndarray:
+def _positive(name: str, value, *, unit: str = "") -> np.ndarray:
+    """Finite and > 0, as an array."""
     return _sign_check(name, value, unit, allow_zero=False)
 
 
-def nonnegative(name: str, value, *, unit: str = "") -> np.ndarray:
+def _nonnegative(name: str, value, *, unit: str = "") -> np.ndarray:
+    """Finite and >= 0, as an array."""
     return _sign_check(name, value, unit, allow_zero=True)
 
 
@@ -176,13 +178,13 @@ def _conductivity(sigma, resistivity) -> np.ndarray:
             + ("neither" if sigma is None else "both")
         )
     if sigma is not None:
-        return np.asarray(nonnegative("sigma", sigma, unit="S/m"), dtype=float)
-    rho = np.asarray(positive("resistivity", resistivity, unit="Ohm m"), dtype=float)
+        return np.asarray(_nonnegative("sigma", sigma, unit="S/m"), dtype=float)
+    rho = np.asarray(_positive("resistivity", resistivity, unit="Ohm m"), dtype=float)
     return 1.0 / rho
 
 
 def _temperature(value) -> np.ndarray:
-    return np.asarray(positive("temperature", value, unit="K"), dtype=float)
+    return np.asarray(_positive("temperature", value, unit="K"), dtype=float)
 
 
 # ---------------------------------------------------------------------------
@@ -697,7 +699,7 @@ def lorenz_kim(seebeck):
 _METHODS = ("sommerfeld", "spb", "kim")
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, eq=False)
 class ElectronicKappa:
     """Electronic thermal conductivity kappa_e = L sigma T and its uncertainty.
 
@@ -741,7 +743,7 @@ def _lorenz_choice(method, lorenz, seebeck, lam, lorenz_err):
             raise ParameterError(
                 f"give either lorenz [W Ohm/K^2] or method={method!r}, not both"
             )
-        L = np.asarray(positive("lorenz", lorenz, unit="W Ohm/K^2"), dtype=float)
+        L = np.asarray(_positive("lorenz", lorenz, unit="W Ohm/K^2"), dtype=float)
         sL = np.zeros_like(L)
         label = "given"
     elif method == "sommerfeld":
@@ -767,7 +769,7 @@ def _lorenz_choice(method, lorenz, seebeck, lam, lorenz_err):
         sL = np.maximum(np.abs(L - other), KIM_STATED_ACCURACY * L)
         label = method
     if lorenz_err is not None:
-        sL = np.asarray(nonnegative("lorenz_err", lorenz_err, unit="W Ohm/K^2"), dtype=float)
+        sL = np.asarray(_nonnegative("lorenz_err", lorenz_err, unit="W Ohm/K^2"), dtype=float)
     return L, sL, eta, label
 
 
@@ -850,7 +852,7 @@ def electronic_kappa(
     sig = _conductivity(sigma, resistivity)
     lam = scattering_exponent(scattering)
     L, sL, eta, label = _lorenz_choice(method, lorenz, seebeck, lam, lorenz_err)
-    rel = 0.0 if conductivity_rel_err is None else nonnegative(
+    rel = 0.0 if conductivity_rel_err is None else _nonnegative(
         "conductivity_rel_err", conductivity_rel_err)
     T, sig, L, sL, rel = _broadcast(temperature=T, sigma=sig, lorenz=L, lorenz_err=sL,
                                     conductivity_rel_err=rel)
@@ -867,7 +869,7 @@ def electronic_kappa(
     )
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, eq=False)
 class LatticeFromTotal:
     """Lattice thermal conductivity obtained as kappa_total - kappa_e.
 
@@ -953,8 +955,8 @@ def lattice_from_total(
         seebeck=seebeck, scattering=scattering, lorenz_err=lorenz_err,
         conductivity_rel_err=conductivity_rel_err,
     )
-    kt = np.asarray(positive("kappa_total", kappa_total, unit="W/m/K"), dtype=float)
-    kt_err = 0.0 if kappa_total_err is None else nonnegative(
+    kt = np.asarray(_positive("kappa_total", kappa_total, unit="W/m/K"), dtype=float)
+    kt_err = 0.0 if kappa_total_err is None else _nonnegative(
         "kappa_total_err", kappa_total_err, unit="W/m/K")
     T = _temperature(temperature)
     T, kt, kt_err, ke_v, ke_u, L, sL = _broadcast(
@@ -1013,8 +1015,8 @@ def wiedemann_franz_kappa(temperature, resistivity, lorenz=L0):
     ~2-12% (reference/metals_wiedemann_franz.csv).
     """
     T = _temperature(temperature)
-    rho = np.asarray(positive("resistivity", resistivity, unit="Ohm m"), dtype=float)
-    L = np.asarray(positive("lorenz", lorenz, unit="W Ohm/K^2"), dtype=float)
+    rho = np.asarray(_positive("resistivity", resistivity, unit="Ohm m"), dtype=float)
+    L = np.asarray(_positive("lorenz", lorenz, unit="W Ohm/K^2"), dtype=float)
     T, rho, L = _broadcast(temperature=T, resistivity=rho, lorenz=L)
     scalar = all(np.ndim(v) == 0 for v in (temperature, resistivity, lorenz))
     val = L * T / rho
@@ -1061,8 +1063,8 @@ def bipolar_kappa_activated(temperature, prefactor, band_gap_ev, *, exponent=1.0
     is P. J. Price, Phil. Mag. 46, 1252 (1955) (from memory).
     """
     T = _temperature(temperature)
-    C = float(nonnegative("prefactor", _scalar("prefactor", prefactor)))
-    eg = float(positive("band_gap_ev", _scalar("band_gap_ev", band_gap_ev), unit="eV"))
+    C = float(_nonnegative("prefactor", _scalar("prefactor", prefactor)))
+    eg = float(_positive("band_gap_ev", _scalar("band_gap_ev", band_gap_ev), unit="eV"))
     p = float(_finite("exponent", _scalar("exponent", exponent)))
     arg = eg * _const.e / (2.0 * _const.k * T)
     with np.errstate(under="ignore", over="ignore"):
@@ -1111,8 +1113,8 @@ def bipolar_kappa_two_band(temperature, sigma_n, sigma_p, seebeck_n, seebeck_p):
     (kB/e)(E_g/kB T + 2 lambda + 4).
     """
     T = _temperature(temperature)
-    sn = np.asarray(nonnegative("sigma_n", sigma_n, unit="S/m"), dtype=float)
-    sp = np.asarray(nonnegative("sigma_p", sigma_p, unit="S/m"), dtype=float)
+    sn = np.asarray(_nonnegative("sigma_n", sigma_n, unit="S/m"), dtype=float)
+    sp = np.asarray(_nonnegative("sigma_p", sigma_p, unit="S/m"), dtype=float)
     Sn = _finite("seebeck_n", seebeck_n, "V/K")
     Sp = _finite("seebeck_p", seebeck_p, "V/K")
     if np.any(Sn > 0):
@@ -1208,13 +1210,13 @@ def zt(
     T = _temperature(temperature)
     S = _finite("seebeck", seebeck, "V/K")
     sig = _conductivity(sigma, resistivity)
-    kl = np.asarray(nonnegative("kappa_lattice", kappa_lattice, unit="W/m/K"), dtype=float)
-    kb = np.asarray(nonnegative("kappa_bipolar", kappa_bipolar, unit="W/m/K"), dtype=float)
+    kl = np.asarray(_nonnegative("kappa_lattice", kappa_lattice, unit="W/m/K"), dtype=float)
+    kb = np.asarray(_nonnegative("kappa_bipolar", kappa_bipolar, unit="W/m/K"), dtype=float)
     if kappa_electronic is None:
         ke = electronic_kappa(T, sigma=sig, lorenz=lorenz, method=method, seebeck=S,
                               scattering=scattering).value
     else:
-        ke = np.asarray(nonnegative("kappa_electronic", kappa_electronic, unit="W/m/K"), dtype=float)
+        ke = np.asarray(_nonnegative("kappa_electronic", kappa_electronic, unit="W/m/K"), dtype=float)
     T, S, sig, kl, ke, kb = _broadcast(temperature=T, seebeck=S, sigma=sig, kappa_lattice=kl,
                                        kappa_electronic=ke, kappa_bipolar=kb)
     total = kl + ke + kb
