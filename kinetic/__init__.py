@@ -17,6 +17,15 @@ from .scattering import (
     Precipitate,
 )
 from .lattice import LatticeModel, Spectrum
+from . import materials, disorder, estimates, electronic
+from .materials import Material
+from .disorder import (isotope_gamma, mass_fluctuation_gamma, compound_gamma, material_gamma, alloy_gamma,
+                       virtual_crystal)
+from .estimates import slack_kappa, slack_kappa_for, cahill_minimum, cahill_minimum_for
+from .electronic import (L0, fermi_integral, seebeck_spb, lorenz_spb_eta, reduced_fermi_level, lorenz_spb,
+                         lorenz_kim, electronic_kappa, ElectronicKappa, lattice_from_total, LatticeFromTotal,
+                         wiedemann_franz_kappa, bipolar_kappa_activated, bipolar_kappa_two_band,
+                         power_factor, zt)
 
 __version__ = "0.1.0"
 
@@ -24,4 +33,10 @@ __all__ = [
     "KineticError", "ParameterError", "DataError", "RecordError", "FitError",
     "Parameter", "Branch", "Mechanism", "Boundary", "PointDefect", "Umklapp", "Normal",
     "ElectronPhonon", "Dislocation", "Precipitate", "LatticeModel", "Spectrum",
+    "materials", "disorder", "estimates", "electronic", "Material",
+    "isotope_gamma", "mass_fluctuation_gamma", "compound_gamma", "material_gamma", "alloy_gamma",
+    "virtual_crystal", "slack_kappa", "slack_kappa_for", "cahill_minimum", "cahill_minimum_for",
+    "L0", "fermi_integral", "seebeck_spb", "lorenz_spb_eta", "reduced_fermi_level", "lorenz_spb",
+    "lorenz_kim", "electronic_kappa", "ElectronicKappa", "lattice_from_total", "LatticeFromTotal",
+    "wiedemann_franz_kappa", "bipolar_kappa_activated", "bipolar_kappa_two_band", "power_factor", "zt",
 ]

@@ -31,11 +31,10 @@ def positive(name: str, value, *, unit: str = "") -> np.ndarray | float:
     arr = as_float_array(name, value)
     bad = ~np.isfinite(arr) | (arr <= 0)
     if np.any(bad):
-        first = arr[bad].flat[0] if arr.ndim else arr.item()
-        u = f" {unit}" if unit else ""
+        first = float(arr[bad].flat[0]) if arr.ndim else float(arr)
+        where = f" at index {int(np.flatnonzero(bad.ravel())[0])} of {_show(value)}" if arr.ndim else ""
         raise ParameterError(
-            f"{name} must be finite and positive{(' [' + unit.strip() + ']') if unit else ''}, got {first!r}"
-            + (f" in {_show(value)}" if arr.ndim else "")
+            f"{name} must be finite and positive{(' [' + unit.strip() + ']') if unit else ''}, got {first!r}{where}"
         )
     return arr if arr.ndim else float(arr)
 
@@ -45,7 +44,7 @@ def nonnegative(name: str, value, *, unit: str = "") -> np.ndarray | float:
     arr = as_float_array(name, value)
     bad = ~np.isfinite(arr) | (arr < 0)
     if np.any(bad):
-        first = arr[bad].flat[0] if arr.ndim else arr.item()
+        first = float(arr[bad].flat[0]) if arr.ndim else float(arr)
         raise ParameterError(
             f"{name} must be finite and non-negative{(' [' + unit + ']') if unit else ''}, got {first!r}"
         )

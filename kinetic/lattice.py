@@ -294,7 +294,7 @@ class LatticeModel:
             # Below theta / X_CUT every temperature sees the same x nodes
             # (x = X_CUT * u / u_hi): one Planck weight row serves them all.
             pw = np.empty_like(u)
-            pw[capped] = quad.planck_weight(quad.X_CUT * quad.log_nodes(np.ones(1))[0][0])
+            pw[capped] = quad.PLANCK_AT_CUT
             if not np.all(capped):
                 pw[~capped] = quad.planck_weight((hbar / kB) * omega[~capped] / T[~capped, None])
         else:

@@ -110,3 +110,8 @@ def planck_weight(x):
         xs = x[small]
         d[small] = xs * (1.0 - xs * (0.5 - xs * (1.0 / 6.0 - xs / 24.0)))
     return x * x * e / (d * d)
+
+
+#: Planck weight at the nodes of a temperature whose range is capped at X_CUT
+#: (every T below theta / X_CUT shares these x values on a Debye branch).
+PLANCK_AT_CUT = planck_weight(X_CUT * _EXP_OFFSETS)
