@@ -254,9 +254,8 @@ def _unit_candidates(unit: str, role: str) -> list[tuple[str, bool]]:
     if role == "temperature" and u.lower() in _TEMPERATURE_WORDS:
         # a bare "C" (coulomb) or "F" (farad) in a temperature column means degC/degF
         out.append((_TEMPERATURE_WORDS[u.lower()], u.lower() in ("c", "f")))
-    base = re.sub(r"(?i)ohm", "ohm", u.translate(_SUPERSCRIPTS))
-    base = base.replace("ohm", "ohm ").replace("ohm  ", "ohm ").strip()
-    base = re.sub(r"ohm (?=[/)*^]|$)", "ohm", base)
+    base = re.sub(r"(?i)ohm", "ohm", u.translate(_SUPERSCRIPTS))     # "uOhm", "Ω" -> "uohm", "ohm"
+    base = re.sub(r"ohm(?=[A-Za-zµμ])", "ohm ", base).strip()          # "µΩcm" -> "µohm cm"
     out.append((base, False))
     fixed = base
     # "W m-1 K-1" -> "W m^-1 K^-1" (only after a letter, so 1e-8 is untouched)
@@ -305,8 +304,9 @@ def _resolve_unit(unit: str, role: str) -> tuple[str, float, str, bool]:
         except _UnitProblem as exc:
             first_problem = first_problem or exc
             continue
-        except Exception:  # pint raises many kinds (undefined, syntax, offset calculus)
-            first_problem = first_problem or _UnitProblem("unknown")
+        except Exception as exc:  # pint raises many kinds (undefined, syntax, offset calculus)
+            kind = "offset" if type(exc).__name__ == "OffsetUnitCalculusError" else "unknown"
+            first_problem = first_problem or _UnitProblem(kind)
             continue
         dims = q.dimensionality
         if role == "kappa_err" and dims == ureg.parse_expression("1").dimensionality:
