@@ -288,7 +288,7 @@ class LatticeModel:
             u_hi = (2.0 / np.pi) * np.arcsin(r)
         else:
             u_hi = r
-        u, w = quad.log_nodes(u_hi)
+        u, w = quad.log_nodes(u_hi, branch.dispersion)
         omega = branch.omega_of_u(u)
         if branch.dispersion == "debye" and np.any(capped):
             # Below theta / X_CUT every temperature sees the same x nodes

@@ -36,6 +36,11 @@ X_CUT = 46.0
 #: adaptive quadrature). u spans e^-22 below u_hi; the power-law tail below is
 #: added in closed form.
 PANELS = ((0.2, 1.0, 5), (0.5, 4.0, 5), (1.5, 22.0, 8))
+#: A sine branch's group velocity vanishes at the zone edge (u = 1, s = 0), so a
+#: rate proportional to it (boundary scattering) meets a Normal rate in a step
+#: that can be a few hundredths of s wide right at the edge; these panels
+#: grade down to 0.001 there (checked against adaptive quadrature in tests).
+EDGE_PANELS = ((0.001, 0.001, 5), (0.009, 0.01, 5), (0.03, 0.04, 5), (0.06, 0.1, 5), (0.1, 0.2, 5)) + PANELS
 
 
 def _rule(panels=PANELS):
@@ -52,17 +57,21 @@ def _rule(panels=PANELS):
     return np.concatenate(offsets)[order], np.concatenate(weights)[order]
 
 
-_OFFSETS, _WEIGHTS = _rule()
-_EXP_OFFSETS = np.exp(_OFFSETS)
+_RULES = {}
+for _name, _panels in (("debye", PANELS), ("sine", EDGE_PANELS)):
+    _o, _w = _rule(_panels)
+    _RULES[_name] = (_o, _w, np.exp(_o))
 
 
-def log_nodes(u_hi: np.ndarray):
+def log_nodes(u_hi: np.ndarray, rule: str = "debye"):
     """Nodes and weights for int_0^{u_hi} F(u) du written as int F(u) u ds.
 
     Parameters
     ----------
     u_hi : ndarray, shape (n,)
         Upper limit of the reduced wavevector for each temperature, in (0, 1].
+    rule : {"debye", "sine"}
+        Panel set: "sine" adds panels graded toward the zone edge.
 
     Returns
     -------
@@ -72,8 +81,9 @@ def log_nodes(u_hi: np.ndarray):
         Weights such that sum(w * F(u)) approximates the integral (the Jacobian
         du = u ds is included).
     """
-    u = np.asarray(u_hi, dtype=float)[:, None] * _EXP_OFFSETS[None, :]
-    return u, _WEIGHTS[None, :] * u
+    _, weights, exp_offsets = _RULES[rule]
+    u = np.asarray(u_hi, dtype=float)[:, None] * exp_offsets[None, :]
+    return u, weights[None, :] * u
 
 
 def lower_tail(u: np.ndarray, integrand: np.ndarray) -> np.ndarray:
@@ -114,4 +124,4 @@ def planck_weight(x):
 
 #: Planck weight at the nodes of a temperature whose range is capped at X_CUT
 #: (every T below theta / X_CUT shares these x values on a Debye branch).
-PLANCK_AT_CUT = planck_weight(X_CUT * _EXP_OFFSETS)
+PLANCK_AT_CUT = planck_weight(X_CUT * _RULES["debye"][2])
