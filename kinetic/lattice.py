@@ -78,7 +78,7 @@ class Spectrum:
         length = np.asarray(length, dtype=float)
         acc = np.interp(np.log(np.maximum(length, 1e-300)), np.log(self.mfp), self.kappa_accumulated,
                         left=0.0, right=self.kappa)
-        return acc / self.kappa
+        return np.clip(acc / self.kappa, 0.0, 1.0)
 
     def fraction_above(self, length):
         """Fraction of kappa carried by phonons with mean free path > length [m]."""
