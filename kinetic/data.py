@@ -281,6 +281,26 @@ class _UnitProblem(Exception):
         self.detail = detail
 
 
+# The commonest spellings with their exact SI factors (SI prefixes), so that
+# reading a typical file does not need to build a pint registry (about a
+# second).  tests/test_data.py checks every entry against pint.
+_COMMON_UNITS: dict[tuple[str, str], float] = {}
+for _role, _table in {
+    "temperature": {"K": 1.0, "kelvin": 1.0},
+    "kappa": {"W/(m K)": 1.0, "W/(m*K)": 1.0, "W/m/K": 1.0, "W m^-1 K^-1": 1.0,
+              "mW/(cm K)": 0.1, "mW/(cm*K)": 0.1, "W/(cm K)": 100.0},
+    "resistivity": {"Ohm m": 1.0, "ohm m": 1.0, "ohm*m": 1.0, "uOhm cm": 1e-8, "uohm cm": 1e-8,
+                    "µΩ cm": 1e-8, "mOhm cm": 1e-5, "mohm cm": 1e-5, "Ohm cm": 1e-2,
+                    "ohm cm": 1e-2},
+    "sigma": {"S/m": 1.0, "S/cm": 100.0},
+    "seebeck": {"V/K": 1.0, "uV/K": 1e-6, "µV/K": 1e-6, "mV/K": 1e-3},
+}.items():
+    for _u, _f in _table.items():
+        _COMMON_UNITS[(_role, _u)] = _f
+        if _role == "kappa":
+            _COMMON_UNITS[("kappa_err", _u)] = _f
+
+
 @lru_cache(maxsize=512)
 def _resolve_unit(unit: str, role: str) -> tuple[str, float, str, bool]:
     """Parse a unit for a quantity.
@@ -290,6 +310,9 @@ def _resolve_unit(unit: str, role: str) -> tuple[str, float, str, bool]:
     or "relative" (a dimensionless uncertainty: multiply by factor * kappa).
     Raises _UnitProblem.
     """
+    common = _COMMON_UNITS.get((role, unit.strip()))
+    if common is not None:
+        return unit.strip(), common, "scale", False
     ureg = _ureg()
     first_problem: _UnitProblem | None = None
     for spelling, reinterpreted in _unit_candidates(unit, role):

@@ -435,6 +435,18 @@ def test_unit_spellings(column, unit, factor):
     np.testing.assert_allclose(got, [value * factor], rtol=rtol)
 
 
+def test_shortcut_unit_table_agrees_with_pint():
+    # the loader's table of common units (used to avoid building a pint registry)
+    # must give the factor pint gives; one ulp of slack for pint's own arithmetic
+    import pint
+
+    u = pint.UnitRegistry()
+    for (role, unit), factor in kd._COMMON_UNITS.items():
+        spelling = unit.replace("Ω", "ohm").replace("Ohm", "ohm")
+        assert u.Quantity(1.0, spelling).to(kd._PINT_SI[role]).magnitude == pytest.approx(
+            factor, rel=2.3e-16), (role, unit)
+
+
 def test_temperature_units_spelled_as_in_labs():
     # a bare C in a temperature column is Celsius, not coulomb (noted); 0 degC = 273.15 K
     ds = parse_data("T [C], kappa\n0, 1\n")
