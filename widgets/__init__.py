@@ -1,1 +1,13 @@
-"""The kinetic workbench (Jupyter widgets)."""
+"""The kinetic workbench (Jupyter widgets).
+
+A thin view over kinetic's public API: ``Workbench(model=None, data=None)`` is
+an ipywidgets widget with live figures (ipympl). Inside this project import
+ipywidgets as ``ipw``: this package is itself named ``widgets``.
+
+>>> from widgets import Workbench     # doctest: +SKIP
+>>> Workbench()                       # doctest: +SKIP
+"""
+from .style import MECHANISM_COLOURS, mechanism_colour
+from .workbench import Workbench, default_model
+
+__all__ = ["Workbench", "default_model", "MECHANISM_COLOURS", "mechanism_colour"]

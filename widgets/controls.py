@@ -1,0 +1,255 @@
+"""Controls built from parameter metadata: a slider plus an exact-entry box per parameter.
+
+A mechanism declares its parameters (:class:`kinetic.Parameter`: value, unit,
+bounds, log scale, fixed); :class:`ParameterControl` turns one into a labelled
+slider (``ipw.FloatLogSlider`` when the parameter spans decades) with a
+numeric box beside it, and :class:`MechanismCard` groups a mechanism's
+controls under an on/off switch. A new mechanism in the engine therefore gets
+its controls without any change here.
+"""
+from __future__ import annotations
+
+import math
+from typing import Callable
+
+import ipywidgets as ipw
+
+from kinetic.parameters import Parameter
+
+from .style import css, fmt, mechanism_colour, mechanism_title
+
+__all__ = ["ParameterControl", "MechanismCard", "slider_range"]
+
+#: steps across a slider's range; one arrow-key press moves one step.
+SLIDER_STEPS = 200
+
+
+def slider_range(p: Parameter) -> tuple:
+    """``(lo, hi)`` for a slider: the parameter's bounds, made finite around its value."""
+    lo, hi = (float(b) for b in p.bounds)
+    v = float(p.value)
+    if p.log:
+        if not (lo > 0 and math.isfinite(lo)):
+            lo = v / 1e3 if v > 0 else 1e-12
+        if not math.isfinite(hi):
+            hi = v * 1e3 if v > 0 else 1.0
+    else:
+        if not math.isfinite(lo):
+            lo = min(0.0, v) - abs(v) - 1.0
+        if not math.isfinite(hi):
+            hi = max(10.0 * abs(v), 1.0)
+    if hi <= lo:
+        hi = lo * 10.0 if p.log else lo + 1.0
+    return lo, hi
+
+
+class ParameterControl(ipw.VBox):
+    """A labelled slider and a numeric box for one model parameter.
+
+    Parameters
+    ----------
+    key : str
+        ``"<mechanism>.<param>"``, as in ``LatticeModel.params``.
+    parameter : kinetic.Parameter
+        Its metadata; the label is ``Parameter.label`` (description and unit).
+    on_change : callable, optional
+        ``on_change(key, value)`` after the user moved the slider or typed a
+        value [SI unit of the parameter].
+
+    Notes
+    -----
+    The slider covers ``Parameter.bounds``; the box takes any value the model
+    accepts (a value beyond the slider's range leaves the slider at its end).
+    """
+
+    def __init__(self, key: str, parameter: Parameter, on_change: Callable | None = None):
+        self.key = key
+        self.parameter = parameter
+        self.on_change = on_change
+        self._mute = False
+        lo, hi = slider_range(parameter)
+        self.range = (lo, hi)
+        v = float(parameter.value)
+        common = dict(continuous_update=True, readout=True, readout_format=".3g",
+                      layout=ipw.Layout(width="15.5em"), style={"description_width": "0px"})
+        if parameter.log:
+            a, b = math.log10(lo), math.log10(hi)
+            self.slider = ipw.FloatLogSlider(value=min(max(v, lo), hi), base=10.0, min=a, max=b,
+                                             step=(b - a) / SLIDER_STEPS, **common)
+        else:
+            self.slider = ipw.FloatSlider(value=min(max(v, lo), hi), min=lo, max=hi,
+                                          step=(hi - lo) / SLIDER_STEPS, **common)
+        self.box = ipw.FloatText(value=v, layout=ipw.Layout(width="7.5em"))
+        self.label = ipw.HTML(value=f"<span title='{key}'>{parameter.label}</span>")
+        slug = key.replace(".", "-").replace("_", "-")
+        self.slider.add_class(css("slider"))
+        self.slider.add_class(css(f"slider-{slug}"))
+        self.box.add_class(css(f"box-{slug}"))
+        self.add_class(css("parameter"))
+        self.slider.observe(self._from_slider, names="value")
+        self.box.observe(self._from_box, names="value")
+        super().__init__([self.label, ipw.HBox([self.slider, self.box])],
+                         layout=ipw.Layout(margin="0 0 2px 0"))
+
+    # --- value --------------------------------------------------------------------
+    @property
+    def value(self) -> float:
+        """Current value [SI unit of the parameter] (the box holds the exact one)."""
+        return float(self.box.value)
+
+    def set_value(self, value: float, notify: bool = False) -> None:
+        """Show ``value`` in slider and box; call ``on_change`` only if ``notify``."""
+        v = float(value)
+        self._mute = True
+        try:
+            self.box.value = v
+            self.slider.value = min(max(v, self.range[0]), self.range[1])
+        finally:
+            self._mute = False
+        if notify and self.on_change is not None:
+            self.on_change(self.key, v)
+
+    def set_disabled(self, disabled: bool) -> None:
+        self.slider.disabled = disabled
+        self.box.disabled = disabled
+
+    # --- observers ----------------------------------------------------------------
+    def _from_slider(self, change):
+        if self._mute:
+            return
+        v = float(change["new"])
+        self._mute = True
+        try:
+            self.box.value = v
+        finally:
+            self._mute = False
+        if self.on_change is not None:
+            self.on_change(self.key, v)
+
+    def _from_box(self, change):
+        if self._mute:
+            return
+        v = float(change["new"])  # the model validates it (finite, in range) via on_change
+        self._mute = True
+        try:
+            if math.isfinite(v):
+                self.slider.value = min(max(v, self.range[0]), self.range[1])
+        finally:
+            self._mute = False
+        if self.on_change is not None:
+            self.on_change(self.key, v)
+
+
+class MechanismCard(ipw.VBox):
+    """One scattering mechanism: an on/off switch, its sliders, and its fixed constants.
+
+    Parameters
+    ----------
+    mechanism : kinetic.Mechanism
+    on_change : callable
+        ``on_change(key, value)`` for a parameter change.
+    on_toggle : callable
+        ``on_toggle(name, enabled)`` when the switch is flipped.
+    enabled : bool
+        Initial state of the switch.
+
+    Attributes
+    ----------
+    toggle : ipw.Checkbox
+    controls : dict of str -> ParameterControl
+        Sliders of the free (not fixed) parameters, keyed ``"<name>.<param>"``.
+    constants : dict of str -> ipw.FloatText
+        Boxes of the fixed (material) parameters, in a folded "constants" section.
+    """
+
+    def __init__(self, mechanism, on_change: Callable, on_toggle: Callable, enabled: bool = True):
+        self.name = mechanism.name
+        self.kind = mechanism.kind
+        self._on_change = on_change
+        self._on_toggle = on_toggle
+        colour = mechanism_colour(mechanism.kind)
+        swatch = ipw.HTML(
+            f"<span style='display:inline-block;width:0.9em;height:0.9em;background:{colour};"
+            "border-radius:2px;margin-top:0.45em'></span>", layout=ipw.Layout(width="1.2em"))
+        self.toggle = ipw.Checkbox(value=bool(enabled), description=mechanism_title(self.kind, self.name),
+                                   indent=False, layout=ipw.Layout(width="auto"))
+        self.toggle.add_class(css("toggle"))
+        self.toggle.add_class(css(f"toggle-{self.name.replace('_', '-')}"))
+        self.toggle.observe(self._toggled, names="value")
+        self.controls: dict = {}
+        self.constants: dict = {}
+        rows = []
+        fixed_rows = []
+        for pname, par in mechanism.parameters.items():
+            key = f"{self.name}.{pname}"
+            if par.fixed:
+                box = ipw.FloatText(value=float(par.value), description=par.label,
+                                    style={"description_width": "13em"},
+                                    layout=ipw.Layout(width="22em"))
+                box.observe(self._constant_changed(key), names="value")
+                self.constants[key] = box
+                fixed_rows.append(box)
+            else:
+                ctl = ParameterControl(key, par, on_change=on_change)
+                self.controls[key] = ctl
+                rows.append(ctl)
+        children = [ipw.HBox([swatch, self.toggle])] + rows
+        if fixed_rows:
+            fold = ipw.Accordion(children=[ipw.VBox(fixed_rows)], selected_index=None)
+            fold.set_title(0, "constants (material, held fixed)")
+            children.append(fold)
+        super().__init__(children, layout=ipw.Layout(border_left=f"3px solid {colour}",
+                                                     padding="2px 0 4px 6px", margin="0 0 6px 0"))
+        self.add_class(css("mechanism"))
+        self.add_class(css(f"mechanism-{self.name.replace('_', '-')}"))
+        self._show_enabled(bool(enabled))
+
+    @property
+    def enabled(self) -> bool:
+        return bool(self.toggle.value)
+
+    def set_enabled(self, enabled: bool, notify: bool = False) -> None:
+        self._mute = not notify
+        try:
+            self.toggle.value = bool(enabled)
+        finally:
+            self._mute = False
+        self._show_enabled(bool(enabled))
+
+    def set_values(self, values: dict) -> None:
+        """Show new values (``{"<name>.<param>": value}``) without calling back."""
+        for key, v in values.items():
+            if key in self.controls:
+                self.controls[key].set_value(v)
+            elif key in self.constants:
+                box = self.constants[key]
+                self._mute = True
+                try:
+                    box.value = float(v)
+                finally:
+                    self._mute = False
+
+    _mute = False
+
+    def _show_enabled(self, on: bool) -> None:
+        for ctl in self.controls.values():
+            ctl.set_disabled(not on)
+        for box in self.constants.values():
+            box.disabled = not on
+
+    def _toggled(self, change):
+        self._show_enabled(bool(change["new"]))
+        if not self._mute:
+            self._on_toggle(self.name, bool(change["new"]))
+
+    def _constant_changed(self, key):
+        def handler(change):
+            if not self._mute:
+                self._on_change(key, float(change["new"]))
+        return handler
+
+
+def format_parameter(p: Parameter, value: float | None = None) -> str:
+    """``"boundary length = 1.000e-06 m"`` for tables."""
+    v = p.value if value is None else value
+    return f"{p.description or p.name} = {fmt(v)}" + (f" {p.unit}" if p.unit else "")
