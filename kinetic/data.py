@@ -1192,6 +1192,41 @@ class _Slow:
         return np.array(rows, dtype=float).reshape(len(rows), ncols), np.array(lines_used)
 
 
+_BISECT_ROWS = 20_000
+
+
+def _raise_first_bad_row(data: str, fast_data: str, hdr: _Header, delim: str | None,
+                         decimal: str | None, ncols: int, lines_of: Callable[[], np.ndarray]) -> None:
+    """Find the first row the vectorised pass refuses by bisection, and let the
+    line-by-line pass word the error for that row alone.
+
+    Rows are independent here (the decimal mark is already settled for the whole
+    file), so a block of rows fails the vectorised pass exactly when one of its
+    rows does.  This costs about two vectorised passes instead of a Python loop
+    over every row.  Returns without raising if the row turns out fine for the
+    line-by-line pass (the caller then runs that pass over the whole file).
+    """
+    fast_rows = fast_data.split("\n")
+
+    def fails(lo: int, hi: int) -> bool:
+        try:
+            _fast_numbers("\n".join(fast_rows[lo:hi]), delim, ncols, hi - lo)
+        except _FastFail:
+            return True
+        return False
+
+    lo, hi = 0, len(fast_rows)
+    while hi - lo > 1:
+        mid = (lo + hi) // 2
+        if fails(lo, mid):
+            hi = mid
+        else:
+            lo = mid
+    text = data.split("\n")[lo]
+    line = int(lines_of()[lo])
+    _Slow(hdr, delim, decimal).parse(text, line)
+
+
 def _row_lines(body: str, first_line: int) -> np.ndarray:
     return np.array([first_line + i for i, t in enumerate(body.split("\n")) if t.strip()],
                     dtype=np.int64)
@@ -1342,6 +1377,10 @@ def _read_table(raw: bytes, name: str, *, label, kind, delimiter, decimal, encod
             table = _fast_numbers(fast_data, delim, ncols, nrows)
         except _FastFail:
             table = None
+            if nrows > _BISECT_ROWS:
+                _raise_first_bad_row(data, fast_data, hdr, delim, decimal, ncols,
+                                     lambda: (first_line + np.arange(nrows)) if not gaps
+                                     else _row_lines(body, first_line))
     if table is None:
         slow = _Slow(hdr, delim, decimal)
         table, row_lines = slow.parse(body, first_line)

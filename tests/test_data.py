@@ -607,6 +607,47 @@ def test_vectorised_pass_reads_a_plain_table():
     np.testing.assert_array_equal(got, [[1, 2.5], [3, 4e-3]])
 
 
+@pytest.mark.parametrize("bad,where", [
+    ("abc", 'column "kappa": expected a number'),
+    ("", 'column "kappa": expected a number, got an empty field'),
+    ("1.0, 7", "expected 2 fields"),
+    ("nan", 'column "kappa": expected a finite number'),
+])
+@pytest.mark.parametrize("gaps", [False, True])
+def test_large_file_error_is_located_like_the_line_pass(tmp_path, bad, where, gaps):
+    # above kd._BISECT_ROWS rows the first bad row is found by bisection
+    n = kd._BISECT_ROWS + 10_000
+    rows = [f"{i + 1}, 1.5" for i in range(n)]
+    k = 12_345
+    rows[k] = f"{k + 1}, {bad}"
+    if gaps:
+        rows.insert(100, "# a comment line")
+        rows.insert(2000, "")
+        rows[5000] += "  # inline note"
+    p = tmp_path / "large.csv"
+    p.write_text("T [K], kappa [W/(m K)]\n" + "\n".join(rows) + "\n")
+    seen = []
+    real_parse = kd._Slow.parse
+
+    def spy(self, body, first_line):
+        seen.append(body.count("\n") + 1)
+        return real_parse(self, body, first_line)
+
+    kd._Slow.parse = spy
+    try:
+        with pytest.raises(DataError) as fast:
+            load_data(p)
+    finally:
+        kd._Slow.parse = real_parse
+    assert seen == [1]          # only the offending row went through the line pass
+    with pytest.raises(DataError) as slow:
+        _load_slow(p)
+    assert str(fast.value) == str(slow.value)
+    line = k + 2 + (2 if gaps else 0)   # header is line 1; two inserted lines before row k
+    assert f"line {line}, " in str(fast.value) or f"line {line}:" in str(fast.value)
+    assert where in str(fast.value)
+
+
 def test_million_row_file_loads(tmp_path):
     # speed is reported by benchmarks, not asserted here; this checks correctness at scale
     n = 1_000_000
