@@ -1,0 +1,469 @@
+"""In-process tests of the workbench (no kernel, no browser).
+
+ipywidgets 8 and ipympl work without a front end: setting a widget's value
+fires its observers synchronously and ``button.click()`` runs its handlers, so
+these tests drive the workbench exactly as a user's clicks would and check
+what the model, the plots and the readouts then show.
+
+The workbench does no physics; the tests compare what it shows with direct
+calls to kinetic's public API on the same model (wiring checks), plus two
+consequences of Matthiessen's rule that hold for any model (removing a
+scattering mechanism, or adding one, cannot lower / raise kappa; Callaway,
+Phys. Rev. 113, 1046, 1959, Eq. 8: kappa is an integral of the combined
+relaxation time, which only grows when a positive rate is removed).
+"""
+from __future__ import annotations
+
+import datetime
+import json
+import math
+import os
+
+import matplotlib
+
+matplotlib.use("module://ipympl.backend_nbagg")
+
+import numpy as np
+import pytest
+import ipywidgets as ipw
+
+from kinetic import demo, materials
+from kinetic.fitting import fit, predict_band
+from kinetic.lattice import LatticeModel
+from kinetic.records import load_record
+from kinetic.scattering import Boundary, PointDefect, Umklapp
+from kinetic import whatif
+
+from widgets import MECHANISM_COLOURS, Workbench, default_model
+from widgets.plots import decade_label, decade_limits, nice_ceil, step_limits
+from widgets.style import fmt
+
+pytestmark = pytest.mark.filterwarnings(
+    "ignore:Passing unrecognized arguments to super\\(Toolbar\\):DeprecationWarning")
+
+
+@pytest.fixture
+def wb():
+    w = Workbench()
+    yield w
+    assert w.messages.faults == [], w.messages.faults  # no unexpected exception in any callback
+    w.close()
+
+
+def _lattice_line(w):
+    w.update_plot("conductivity")
+    return w.plots["conductivity"].lines["lattice"]
+
+
+# --- opening ---------------------------------------------------------------------------
+def test_opens_on_demo_data_as_a_widget(wb):
+    assert isinstance(wb, ipw.VBox)
+    assert wb.data is not None and wb.data.label == demo.demo_dataset().label
+    assert wb.model.material == demo.DEMO_MATERIAL
+    assert wb.model.params == demo.demo_model().params
+    # the readout is the model's own number at the chosen temperature
+    assert wb.kappa_at_temperature == pytest.approx(float(wb.model.kappa(300.0)), rel=1e-12)  # same call
+    assert fmt(wb.kappa_at_temperature) in wb.readouts["lattice"].value
+    # the demo carries a resistivity: the electronic split is on and drawn
+    assert wb.electronic_on.value and not wb.electronic_on.disabled
+    line = wb.plots["conductivity"].lines["electronic"]
+    assert line.get_visible() and len(line.get_xdata()) == len(wb.data.temperature)
+    assert wb.plots["conductivity"].measured.get_visible()
+
+
+def test_sliders_come_from_parameter_metadata(wb):
+    info = wb.model.parameter_info()
+    free = {k for k, p in info.items() if not p.fixed}
+    assert set(wb.controls) == free  # fixed (material) constants are not sliders
+    for key, ctl in wb.controls.items():
+        p = info[key]
+        assert p.label in ctl.label.value  # unit in every label
+        assert isinstance(ctl.slider, ipw.FloatLogSlider) == p.log
+    fixed = {k for k, p in info.items() if p.fixed}
+    shown = {k for card in wb.cards.values() for k in card.constants}
+    assert shown == fixed  # in the folded "constants" section instead
+
+
+# --- sliders drive model, plot and readout -----------------------------------------------
+def test_slider_changes_model_line_and_readout(wb):
+    line = _lattice_line(wb)
+    before_y = np.array(line.get_ydata())
+    before_readout = wb.readouts["lattice"].value
+    wb.plots["conductivity"].canvas.draw()
+    before_png = wb.plots["conductivity"].canvas._data_url
+    ctl = wb.controls["umklapp.gruneisen"]
+    ctl.slider.value = 2.5
+    assert wb.model.params["umklapp.gruneisen"] == pytest.approx(2.5, rel=1e-12)  # slider value as set
+    assert ctl.box.value == pytest.approx(2.5, rel=1e-12)
+    after_y = np.array(_lattice_line(wb).get_ydata())
+    assert not np.allclose(after_y, before_y)
+    T = wb.temperatures
+    np.testing.assert_allclose(after_y, wb.model.kappa(T), rtol=1e-12)  # the plot shows the model itself
+    assert wb.readouts["lattice"].value != before_readout
+    wb.plots["conductivity"].canvas.draw()
+    assert wb.plots["conductivity"].canvas._data_url != before_png  # the pixels changed too
+
+
+def test_slider_move_updates_artists_in_place(wb):
+    plot = wb.plots["conductivity"]
+    lines_before = {k: id(v) for k, v in plot.lines.items()}
+    n_artists = len(plot.ax.get_children())
+    fig = plot.fig
+    plot.canvas.draw()
+    full_draws = plot.full_draws
+    for v in (1.6, 1.7, 1.8):
+        wb.controls["umklapp.gruneisen"].slider.value = v
+    assert plot.fig is fig
+    assert {k: id(v) for k, v in plot.lines.items()} == lines_before
+    assert len(plot.ax.get_children()) == n_artists
+    # small moves keep the (decade-snapped) axes, so only the curves were redrawn
+    assert plot.blits >= 1 and plot.full_draws == full_draws
+
+
+def test_numeric_box_gives_exact_value_beyond_slider(wb):
+    ctl = wb.controls["boundary.length"]
+    ctl.box.value = 2.345678e-6
+    assert wb.model.params["boundary.length"] == 2.345678e-6  # exactly what was typed
+    ctl.box.value = 0.5  # beyond the slider's range: the model takes it, the slider stops at its end
+    assert wb.model.params["boundary.length"] == 0.5
+    assert ctl.slider.value == pytest.approx(ctl.range[1], rel=1e-9)  # slider clamps (log steps round)
+
+
+def test_invalid_entry_is_refused_in_plain_words(wb):
+    ctl = wb.controls["boundary.length"]
+    before = wb.model.params["boundary.length"]
+    ctl.box.value = -1.0
+    assert wb.model.params["boundary.length"] == before
+    assert ctl.box.value == before  # the box shows the value in use again
+    msg = wb.messages.last_error
+    assert "boundary.length" in msg and "-1" in msg and "Traceback" not in msg
+    texts = "".join(o.get("text", "") for o in wb.messages.output.outputs)
+    assert "Problem:" in texts and "boundary.length" in texts
+
+
+# --- mechanisms -------------------------------------------------------------------------
+def test_switching_a_mechanism_off_raises_kappa(wb):
+    k_all = wb.kappa_at_temperature
+    wb.cards["point_defect"].toggle.value = False
+    assert "point_defect" not in wb.model.mechanism_names
+    assert wb.controls["point_defect.gamma"].slider.disabled
+    k_without = wb.kappa_at_temperature
+    assert k_without > k_all  # Matthiessen: removing a positive rate lengthens tau (Callaway 1959, Eq. 8)
+    wb.cards["point_defect"].toggle.value = True
+    assert wb.kappa_at_temperature == pytest.approx(k_all, rel=1e-12)  # the same model again
+
+
+def test_last_resistive_mechanism_cannot_be_switched_off(wb):
+    for name in ("boundary", "point_defect"):
+        wb.cards[name].toggle.value = False
+    wb.cards["umklapp"].toggle.value = False
+    assert wb.cards["umklapp"].toggle.value  # put back
+    assert "umklapp" in wb.model.mechanism_names
+    assert "infinite" in wb.messages.last_error
+
+
+def test_adding_a_mechanism_builds_its_card_and_lowers_kappa(wb):
+    k0 = wb.kappa_at_temperature
+    wb.add_kind.value = "dislocation"
+    wb.add_button.click()
+    assert "dislocation" in wb.model.mechanism_names
+    assert "dislocation" in wb.cards and "dislocation.density" in wb.controls
+    assert wb.kappa_at_temperature < k0  # an extra positive rate shortens tau (Callaway 1959, Eq. 8)
+    assert "dislocation.density" in wb.fit_panel.rows  # and it can be fitted
+
+
+def test_material_and_branch_choices_rebuild_the_model(wb):
+    wb.material_choice.value = "Si"
+    assert wb.model.material == "Si"
+    si = materials.get("Si")
+    assert wb.model.params["point_defect.volume_per_atom"] == si.volume_per_atom
+    assert wb.model.params["umklapp.gruneisen"] == si.gruneisen
+    wb.branch_choice.value = True
+    assert wb.model.branch_names == ("L", "T")
+    expected = LatticeModel.from_material(si, scattering=wb.model.scattering, split_branches=True)
+    assert wb.kappa_at_temperature == pytest.approx(float(expected.kappa(300.0)), rel=1e-12)  # same model
+    wb.figure_tabs.selected_index = 1
+    rates = wb.plots["rates"]
+    styles = {b: {l.get_linestyle() for (bb, _), l in rates.lines.items() if bb == b and l.get_visible()}
+              for b in ("L", "T")}
+    assert styles == {"L": {"-"}, "T": {"--"}}
+
+
+def test_model_as_given_without_preset():
+    b = materials.get("Ge").branches()
+    model = LatticeModel(b, [Boundary(1e-3), Umklapp(B=2e-19)])
+    w = Workbench(model=model)
+    try:
+        assert w.data is None and w.material is None
+        assert w.material_choice.value == "(model as given)"
+        assert w.readouts["floor"].value == ""  # no preset: no Cahill-Watson-Pohl floor
+        w.branch_choice.value = True
+        assert w.model.branch_names == ("avg",) and "material preset" in w.messages.last_error
+        assert w.kappa_at_temperature == pytest.approx(float(model.kappa(300.0)), rel=1e-12)  # same model
+    finally:
+        w.close()
+
+
+# --- plots ------------------------------------------------------------------------------
+def test_rates_plot_shows_each_mechanism_in_its_colour(wb):
+    wb.temperature.value = 150.0
+    wb.figure_tabs.selected_index = 1
+    plot = wb.plots["rates"]
+    model = wb.model
+    b = model.branches[0]
+    for name in model.mechanism_names:
+        line = plot.lines[(b.name, name)]
+        kind = model.mechanism(name).kind
+        assert line.get_color() == MECHANISM_COLOURS[kind]
+        expected = model.rates(line.get_xdata(), 150.0)[b.name][name]
+        y = np.asarray(line.get_ydata(), float)
+        ok = np.isfinite(y)
+        np.testing.assert_allclose(y[ok], np.broadcast_to(expected, y.shape)[ok], rtol=1e-12)  # same call
+    assert "150 K" in plot.title.get_text()
+
+
+def test_spectrum_and_mean_free_path_plots(wb):
+    wb.update_all_plots()
+    s = wb.model.spectral(300.0)
+    line = wb.plots["spectrum"].lines["avg"]
+    np.testing.assert_allclose(line.get_ydata(), s.kappa_omega["avg"], rtol=1e-12)  # same call
+    mfp = wb.plots["mfp"]
+    np.testing.assert_allclose(mfp.line.get_ydata(), s.kappa_accumulated[s.mfp > 0], rtol=1e-12)
+    assert mfp.grain.get_xdata()[0] == wb.model.params["boundary.length"]
+    wb.figure_tabs.selected_index = 3
+    wb.controls["boundary.length"].box.value = 3e-7
+    assert mfp.grain.get_xdata()[0] == 3e-7
+    lo, hi = mfp.ax.get_xlim()
+    assert lo < 3e-7 < hi  # the grain-size marker stays in view
+
+
+def test_hidden_plots_are_updated_when_shown(wb):
+    wb.figure_tabs.selected_index = 0
+    wb.controls["umklapp.gruneisen"].slider.value = 2.2
+    assert wb.plots["spectrum"].stale
+    wb.figure_tabs.selected_index = 2
+    assert not wb.plots["spectrum"].stale
+    np.testing.assert_allclose(wb.plots["spectrum"].lines["avg"].get_ydata(),
+                               wb.model.spectral(300.0).kappa_omega["avg"], rtol=1e-12)  # same call
+
+
+def test_temperature_control_moves_readout_and_marker(wb):
+    wb.temperature.value = 100.0
+    assert wb.kappa_at_temperature == pytest.approx(float(wb.model.kappa(100.0)), rel=1e-12)  # same call
+    assert "100 K" in wb.readouts["temperature"].value
+    assert wb.plots["conductivity"].marker.get_xdata()[0] == 100.0
+
+
+def test_axis_helpers():
+    assert nice_ceil(7.2) == 10.0 and nice_ceil(1.2) == 1.5 and nice_ceil(0.031) == pytest.approx(0.05)
+    assert decade_limits(0.3, 47.0) == pytest.approx((0.1, 100.0))
+    assert decade_limits(1e-3, 1e9, max_decades=6) == pytest.approx((1e3, 1e9))
+    assert step_limits(6.7, 1200.0) == pytest.approx((5.0, 2000.0))
+    assert decade_label(100.0) == "100" and decade_label(1e12, plain=False) == "10\u00b9\u00b2"
+    assert decade_label(3e5) == ""  # not a decade
+
+
+# --- data -------------------------------------------------------------------------------
+GOOD = (b"# label: pellet B (invented)\n"
+        b"T [K], kappa [W/(m K)], rho [uOhm cm], S [uV/K]\n"
+        b"100, 12.0, 200, 80\n200, 9.0, 300, 120\n300, 7.0, 400, 160\n")
+
+
+def _upload(w, name, content):
+    w.data_panel.upload.value = ({"name": name, "type": "text/csv", "size": len(content),
+                                  "content": memoryview(content),
+                                  "last_modified": datetime.datetime(2024, 1, 1, tzinfo=datetime.timezone.utc)},)
+
+
+def test_bad_upload_shows_the_line_and_keeps_previous_state(wb):
+    before_data = wb.data
+    before_params = wb.model.params
+    bad = b"T [K], kappa [W/(m K)]\n10, 2.5\n20, two\n30, 3.1\n"
+    _upload(wb, "bad.csv", bad)
+    assert wb.data is before_data and wb.model.params == before_params
+    err = wb.data_panel.error.value
+    assert "bad.csv" in err and "line 3" in err and "20, two" in err  # the loader's line, shown verbatim
+    assert "previous data are still in use" in err
+    assert "bad.csv" in wb.messages.last_error
+    assert wb.data_panel.upload.value == ()  # cleared, so the fixed file can be chosen again
+
+
+def test_good_upload_enables_the_electronic_split(wb):
+    _upload(wb, "pellet_b.csv", GOOD)
+    assert wb.data.label == "pellet B (invented)" and len(wb.data.temperature) == 3
+    assert wb.data_panel.error.value == ""
+    assert wb.electronic_on.value and not wb.electronic_on.disabled
+    el = wb.electronic()
+    np.testing.assert_allclose(wb.plots["conductivity"].lines["electronic"].get_ydata(), el.kappa_electronic,
+                               rtol=1e-12)  # same call
+    assert "electronic" in wb.readouts["electronic"].value
+    wb.electronic_on.value = False
+    assert not wb.plots["conductivity"].lines["electronic"].get_visible()
+
+
+def test_upload_without_resistivity_disables_the_split(wb):
+    _upload(wb, "plain.csv", b"T [K], kappa [W/(m K)]\n100, 12\n200, 9\n300, 7\n")
+    assert wb.electronic_on.disabled and not wb.electronic_on.value
+    assert "no resistivity" in wb.electronic_info.value
+
+
+def test_lorenz_method_changes_the_electronic_part(wb):
+    ke_sommerfeld = np.array(wb.electronic().kappa_electronic)
+    wb.lorenz_choice.value = "spb"
+    ke_spb = np.array(wb.electronic().kappa_electronic)
+    assert not np.allclose(ke_spb, ke_sommerfeld)
+    np.testing.assert_allclose(wb.plots["conductivity"].lines["electronic"].get_ydata(), ke_spb, rtol=1e-12)
+
+
+def test_demo_button_restores_demo_data(wb):
+    _upload(wb, "pellet_b.csv", GOOD)
+    wb.data_panel.demo_choice.value = wb.data_panel.demo_choice.options[0]
+    wb.data_panel.use_demo.click()
+    assert wb.data == demo.demo_dataset()
+
+
+# --- fitting ----------------------------------------------------------------------------
+def test_fit_blocking_and_use_fitted_values_moves_sliders(wb):
+    fp = wb.fit_panel
+    assert fp.free == list(demo.DEFAULT_FREE)
+    res = fp.run(blocking=True)
+    direct = fit(demo.demo_model(), demo.demo_dataset(), list(demo.DEFAULT_FREE),
+                 bounds=fp.bounds, n_starts=int(fp.starts.value))
+    for k in demo.DEFAULT_FREE:
+        assert res.values[k] == pytest.approx(direct.values[k], rel=1e-9)  # same deterministic fit
+        assert k in fp.table.value
+    assert "\u00b1" in fp.table.value and "95% interval" in fp.table.value
+    assert wb.plots["conductivity"].band.get_visible()
+    assert not fp.use_button.disabled
+    fp.use_button.click()
+    for k, v in res.values.items():
+        assert wb.controls[k].value == v
+        assert wb.model.params[k] == v
+    # the sliders moved: log sliders show the fitted value as far as their steps allow
+    assert wb.controls["boundary.length"].slider.value == pytest.approx(res.values["boundary.length"], rel=1e-12)
+    np.testing.assert_allclose(_lattice_line(wb).get_ydata(), res.model.kappa(wb.temperatures), rtol=1e-12)
+
+
+def test_fit_runs_in_a_thread_with_progress(wb):
+    fp = wb.fit_panel
+    fp.starts.value = 3
+    thread = fp.run()
+    fp.join(60)
+    assert not thread.is_alive()
+    assert fp.result is not None and fp.progress.value == fp.progress.max == 3
+    assert fp.progress.bar_style == "success" and not fp.fit_button.disabled and fp.cancel_button.disabled
+    assert wb.result is fp.result
+
+
+def test_cancel_stops_the_fit_after_the_current_start(wb):
+    fp = wb.fit_panel
+    fp.starts.value = 6
+    original = fp._progress
+
+    def progress_then_cancel(i, n, cost):
+        original(i, n, cost)
+        if i == 1:
+            fp.cancel_button.click()
+
+    fp._progress = progress_then_cancel
+    fp.run()
+    fp.join(60)
+    assert fp.result is not None and fp.result.flags.cancelled
+    assert len(fp.result.starts) == 1
+    assert "cancelled" in fp.table.value
+
+
+def test_fit_refuses_without_free_parameters(wb):
+    fp = wb.fit_panel
+    fp.set_free([])
+    fp.fit_button.click()
+    assert fp.result is None and "no parameter is ticked" in wb.messages.last_error
+
+
+def test_fit_flags_correlations_and_bounds(wb):
+    fp = wb.fit_panel
+    row = fp.rows["boundary.length"]
+    row.lower.value, row.upper.value = 1e-5, 1e-3  # the truth (1.5 um, invented) is below: hits the bound
+    res = fp.run(blocking=True)
+    assert "boundary.length" in res.flags.at_bound
+    assert "at a bound" in fp.table.value
+
+
+# --- what-if ----------------------------------------------------------------------------
+def test_whatif_studies_use_the_model_and_the_fit_band(wb):
+    wb.fit_panel.run(blocking=True)
+    wb.fit_panel.use_fitted_values()
+    wp = wb.whatif_panel
+    wp.update_button.click()
+    assert set(wp.last) == {"grain", "alloy", "map", "zt"}
+    lengths = wp.plots["grain"].lines["model"].get_xdata()
+    direct = whatif.grain_size_sweep(wb.model, lengths, 300.0, wb.result)
+    np.testing.assert_allclose(wp.plots["grain"].lines["model"].get_ydata(), direct.kappa[:, 0], rtol=1e-12)
+    assert wp.plots["grain"].bands["last fit: 95% band"].get_visible()
+    assert wp.last["map"].kappa.shape == (21, 31)
+    assert "best" in wp.plots["zt"].title.get_text()
+    wb.controls["umklapp.gruneisen"].slider.value = 1.2
+    assert "model changed" in wp.status.value
+
+
+# --- session and exports ------------------------------------------------------------------
+def test_save_and_load_a_record_and_export(tmp_path, wb):
+    sp = wb.session_panel
+    sp.save_button.click()  # nothing to save yet
+    assert "run a fit first" in wb.messages.last_error
+    res = wb.fit_panel.run(blocking=True)
+    rec_path = tmp_path / "session.json"
+    sp.record_path.value = str(rec_path)
+    sp.save_button.click()
+    rec = load_record(rec_path)
+    assert rec.values == pytest.approx(res.values, rel=1e-15)  # floats round-trip exactly through repr
+    assert json.loads(rec_path.read_text())["schema"] == "kinetic.fit-record"
+    other = Workbench(model=default_model("Si"))
+    try:
+        other.session_panel.record_path.value = str(rec_path)
+        other.session_panel.load_button.click()
+        assert other.messages.last_error == ""
+        assert other.data == res.data and other.model.params == res.model.params
+        assert other.fit_panel.result is not None and other.plots["conductivity"].band.get_visible()
+    finally:
+        other.close()
+    png = tmp_path / "k.png"
+    sp.figure_path.value = str(png)
+    sp.export_figure_button.click()
+    assert png.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"
+    csv_path = tmp_path / "fit.csv"
+    sp.table_choice.value = "fit"
+    sp.table_path.value = str(csv_path)
+    sp.export_table_button.click()
+    lines = csv_path.read_text().splitlines()
+    assert lines[0].startswith("parameter,value,stderr")
+    row = dict(zip(lines[0].split(","), lines[1].split(",")))
+    assert float(row["value"]) == res.values[row["parameter"]]  # repr round trip
+    sp.table_choice.value = "data"
+    sp.table_path.value = str(tmp_path / "data.csv")
+    sp.export_table_button.click()
+    assert len((tmp_path / "data.csv").read_text().splitlines()) == len(wb.data.temperature) + 1
+    leftovers = [p.name for p in tmp_path.iterdir() if p.name.startswith(".")]
+    assert leftovers == []  # atomic writes leave no temporary files
+
+
+def test_export_refuses_wrong_suffix_and_missing_study(tmp_path, wb):
+    sp = wb.session_panel
+    sp.figure_path.value = str(tmp_path / "k.jpg")
+    sp.export_figure_button.click()
+    assert ".png" in wb.messages.last_error
+    sp.table_choice.value = "grain"
+    sp.table_path.value = str(tmp_path / "g.csv")
+    sp.export_table_button.click()
+    assert "Update what-ifs" in wb.messages.last_error
+    assert not (tmp_path / "g.csv").exists()
+
+
+def test_loading_a_damaged_record_keeps_the_session(tmp_path, wb):
+    bad = tmp_path / "broken.json"
+    bad.write_text('{"schema": "kinetic.fit-record", "version": 1, "samples": [')
+    before = wb.model.params
+    wb.session_panel.record_path.value = str(bad)
+    wb.session_panel.load_button.click()
+    assert wb.model.params == before
+    assert "broken.json" in wb.messages.last_error and "Traceback" not in wb.messages.last_error
