@@ -917,6 +917,20 @@ def _name_and_unit(fieldtext: str, lookup: Callable[[str], Any]) -> tuple[str, s
     return f, None
 
 
+def _first_data_line_has(text: str, pos: int, ch: str) -> bool:
+    """Whether the first data line after position ``pos`` contains ``ch`` (True if none)."""
+    n = len(text)
+    while pos < n:
+        end = text.find("\n", pos)
+        if end < 0:
+            end = n
+        s = text[pos:end].strip()
+        if s and not s.startswith("#"):
+            return ch in text[pos:end]
+        pos = end + 1
+    return True
+
+
 def _known_field(fieldtext: str, lookup) -> bool:
     try:
         return lookup(_name_and_unit(fieldtext, lookup)[0]) is not None
@@ -1270,6 +1284,16 @@ def _read_table(raw: bytes, name: str, *, label, kind, delimiter, decimal, encod
     ignore = {_norm_name(str(c)) for c in ignore_columns}
     if units is not None and not isinstance(units, Mapping):
         raise ParameterError(f"units must be a dict of column name -> unit, got {units!r}")
+    unit_overrides: dict[str, str] = {}
+    if units:
+        for k, v in units.items():
+            hit = col_map.get(_norm_name(str(k))) or COLUMN_ALIASES.get(_norm_name(str(k)))
+            if hit is None:
+                raise ParameterError(f"units[{k!r}]: unknown column name; expected e.g. "
+                                     '"T", "kappa", "rho", "sigma", "S"')
+            if not isinstance(v, str):
+                raise ParameterError(f"units[{k!r}] must be a unit string, got {v!r}")
+            unit_overrides[hit[0]] = v
 
     notes: list[str] = []
     sha = hashlib.sha256(raw).hexdigest()
@@ -1312,6 +1336,8 @@ def _read_table(raw: bytes, name: str, *, label, kind, delimiter, decimal, encod
         header = header[:cut]
     delim = (None if delimiter == " " else delimiter) if delimiter is not None \
         else _detect_delimiter(header)
+    if delimiter is None and delim == "\t" and not _first_data_line_has(text, pos, "\t"):
+        delim = None   # a space-aligned table whose header happens to contain a tab
     hdr = _Header(name, header_line)
     _parse_header(header, hdr, delim, col_map, ignore)
     body = text[pos:] if pos <= n else ""
@@ -1395,16 +1421,6 @@ def _read_table(raw: bytes, name: str, *, label, kind, delimiter, decimal, encod
         return row_lines
 
     # ---- units and SI conversion
-    unit_overrides: dict[str, str] = {}
-    if units:
-        for k, v in units.items():
-            hit = col_map.get(_norm_name(str(k))) or COLUMN_ALIASES.get(_norm_name(str(k)))
-            if hit is None:
-                raise ParameterError(f"units[{k!r}]: unknown column name; expected e.g. "
-                                     '"T", "kappa", "rho", "sigma", "S"')
-            if not isinstance(v, str):
-                raise ParameterError(f"units[{k!r}] must be a unit string, got {v!r}")
-            unit_overrides[hit[0]] = v
 
     col_of = {r: i for i, r in enumerate(hdr.roles) if r is not None}
     raw_cols: dict[str, np.ndarray] = {r: table[:, i] for r, i in col_of.items()}

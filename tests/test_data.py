@@ -387,6 +387,18 @@ def test_delimiter_option_and_detection():
         parse_data("T,kappa\n10,1\n", delimiter="|")
 
 
+def test_header_layouts():
+    # a space-aligned table whose header contains a stray tab is still whitespace-separated
+    assert parse_data("T [K]\t  kappa [W/(m K)]\n  300   1.5\n").kappa[0] == 1.5
+    ds = parse_data("T (K)   kappa (W/(m K))   rho (uOhm cm)\n300 1.5 250\n")
+    # 1 uOhm cm = 1e-8 Ohm m (SI prefixes)
+    np.testing.assert_allclose(ds.resistivity, [250e-8], rtol=RTOL_UNIT)
+    ds = parse_data("Temperature (K), Thermal conductivity (W/m·K)\n300, 1.5\n")
+    assert ds.kappa[0] == 1.5 and ds.units["kappa"] == "W/m·K"
+    ds = parse_data("T[K];kappa[W/(m K)]\n300;1.5\n")
+    assert ds.temperature[0] == 300
+
+
 # Header unit spellings -> hand-computed SI factor (SI prefixes and derived units,
 # SI Brochure 2019; the W/mK reading is common practice in thermal-transport labs)
 UNIT_CASES = [
