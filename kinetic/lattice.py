@@ -290,13 +290,17 @@ class LatticeModel:
             u_hi = r
         u, w = quad.log_nodes(u_hi, branch.dispersion)
         omega = branch.omega_of_u(u)
-        if branch.dispersion == "debye" and np.any(capped):
-            # Below theta / X_CUT every temperature sees the same x nodes
-            # (x = X_CUT * u / u_hi): one Planck weight row serves them all.
-            pw = np.empty_like(u)
-            pw[capped] = quad.PLANCK_AT_CUT
-            if not np.all(capped):
-                pw[~capped] = quad.planck_weight((hbar / kB) * omega[~capped] / T[~capped, None])
+        if branch.dispersion == "debye":
+            # x = hbar omega / kB T = x_max u; below theta / X_CUT every temperature
+            # sees the same x nodes, so one precomputed Planck row serves them all.
+            if np.all(capped):
+                pw = np.broadcast_to(quad.PLANCK_AT_CUT, u.shape)
+            elif np.any(capped):
+                pw = np.empty_like(u)
+                pw[capped] = quad.PLANCK_AT_CUT
+                pw[~capped] = quad.planck_weight(x_max[~capped, None] * u[~capped])
+            else:
+                pw = quad.planck_weight(x_max[:, None] * u)
         else:
             pw = quad.planck_weight((hbar / kB) * omega / T[:, None])
         return u, w, omega, pw

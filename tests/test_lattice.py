@@ -276,3 +276,14 @@ def test_bad_temperature_names_parameter(T):
 def test_bad_input_messages(make, match):
     with pytest.raises(ParameterError, match=match):
         make()
+
+
+def test_planck_weight_against_mpmath():
+    # x^2 e^x / (e^x - 1)^2 at 40 digits (mpmath) across the series/exponential switch and to x = 700
+    import mpmath as mp
+    from kinetic.quadrature import SERIES_X, planck_weight
+    xs = np.concatenate([np.geomspace(1e-9, 700, 300), [SERIES_X * (1 - 1e-12), SERIES_X]])
+    with mp.workdps(40):
+        ref = np.array([float(mp.mpf(x) ** 2 * mp.exp(x) / mp.expm1(x) ** 2) for x in xs])
+    np.testing.assert_allclose(planck_weight(xs), ref, rtol=1e-14)  # double-precision round-off
+    assert planck_weight(np.array([1e5]))[0] == 0.0  # underflows quietly, no overflow warning
