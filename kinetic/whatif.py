@@ -1,0 +1,570 @@
+"""What-if studies: kappa against a parameter, grain size, alloy fraction, and zT against doping.
+
+* :func:`sweep` -- kappa(T) for a list of values of any model parameter; with
+  a fit result, a confidence band from the fit's covariance.
+* :func:`grain_size_sweep` -- the same for the boundary length.
+* :func:`alloy_sweep` -- kappa against the alloy fraction x of A(1-x)B(x) in
+  the virtual crystal (:func:`kinetic.disorder.virtual_crystal`): host
+  properties interpolated, Abeles' Gamma(x) in the point-defect rate.
+* :func:`grain_alloy_map` -- kappa on a grid of grain sizes x alloy fractions
+  at one temperature.
+* :func:`zt_vs_fermi_level` -- zT against the reduced Fermi level in the
+  single-parabolic-band model (see its docstring for the assumptions).
+
+Speed of the map. One ``kappa`` call at one temperature costs ~0.6 ms (it is
+dominated by per-call overhead, not by the quadrature), so 2500 separate
+models would take ~1.5 s. The map instead evaluates all grain sizes of one
+composition in a single call: the temperature array holds the same T once
+per grain size, and the boundary rate is a row-wise mechanism
+(:class:`RowBoundary`) whose row i uses length i. The engine's integrals are
+already vectorised over rows (temperatures), so a 50 x 50 map costs 50 calls.
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import ClassVar, Sequence
+
+import numpy as np
+from scipy.constants import atomic_mass as _u, e as _e, h as _h, hbar as _hbar, k as _kB, m_e as _me
+
+from ._validate import as_float_array, positive, temperatures as _check_T
+from .errors import ParameterError
+from .lattice import LatticeModel
+from .scattering import Boundary, Mechanism, PointDefect, Umklapp
+
+__all__ = [
+    "Sweep",
+    "AlloySweep",
+    "GrainAlloyMap",
+    "DopingSweep",
+    "RowBoundary",
+    "sweep",
+    "grain_size_sweep",
+    "alloy_model",
+    "alloy_sweep",
+    "grain_alloy_map",
+    "zt_vs_fermi_level",
+]
+
+
+# ---------------------------------------------------------------------------------
+# generic parameter sweep
+# ---------------------------------------------------------------------------------
+
+@dataclass(frozen=True)
+class Sweep:
+    """kappa against one parameter.
+
+    Attributes
+    ----------
+    param : str
+        ``"<mechanism>.<param>"``.
+    values : ndarray (n,)
+        Parameter values [its unit].
+    temperature : ndarray (m,)
+        [K]
+    kappa : ndarray (n, m)
+        Lattice conductivity [W/m/K].
+    lower, upper : ndarray (n, m) or None
+        Confidence band from the fit result's covariance (None without a result).
+    level : float or None
+    """
+
+    param: str
+    values: np.ndarray
+    temperature: np.ndarray
+    kappa: np.ndarray
+    lower: np.ndarray | None = None
+    upper: np.ndarray | None = None
+    level: float | None = None
+
+
+def _values(name, values):
+    v = np.atleast_1d(as_float_array(name, values)).astype(float)
+    if v.ndim != 1 or v.size == 0 or not np.all(np.isfinite(v)):
+        raise ParameterError(f"{name} must be a non-empty 1-D list of finite numbers, got {values!r}")
+    return v
+
+
+def sweep(model: LatticeModel | None, param: str, values, temperature, result=None, *, level: float = 0.95,
+          sample=0) -> Sweep:
+    """Lattice conductivity for each value of one parameter, at given temperatures.
+
+    Parameters
+    ----------
+    model : LatticeModel or None
+        The model to vary; None uses the fitted model of ``result``.
+    param : str
+        ``"<mechanism>.<param>"`` (see ``model.params``).
+    values : array_like
+        Values of the parameter [its unit].
+    temperature : float or array_like
+        [K]
+    result : FitResult or Record, optional
+        A fit of this model: the band propagates the covariance of its free
+        parameters (other than ``param``, which the sweep sets) at each value,
+        linearised as in :func:`kinetic.fitting.predict_band`.
+    level : float
+        Confidence level of the band.
+    sample : int or str
+        Sample of a joint fit.
+
+    Returns
+    -------
+    Sweep
+
+    Raises
+    ------
+    ParameterError
+        Unknown parameter, invalid values or temperatures.
+    """
+    from .fitting import _band_parts, _level, _sample_index
+
+    if model is None:
+        if result is None:
+            raise ParameterError("give a model, or a fit result whose model to sweep")
+        model = result.models[_sample_index(result, sample)]
+    if not isinstance(model, LatticeModel):
+        raise ParameterError(f"model must be a LatticeModel, got {type(model).__name__}")
+    if param not in model.params:
+        raise ParameterError(f"unknown parameter {param!r}; valid names: {', '.join(model.params)}")
+    vals = _values("values", values)
+    T = np.atleast_1d(_check_T(temperature)).astype(float).ravel()
+    models = [model.with_params({param: float(v)}) for v in vals]
+    kappa = np.array([m.kappa(T) for m in models])
+    if result is None:
+        return Sweep(param, vals, T, kappa)
+    level = _level(level)
+    i = _sample_index(result, sample)
+    keep = [j for j, f in enumerate(result.free) if f.param != param and i in f.samples]
+    free = [result.free[j] for j in keep]
+    # re-index: the band helper looks at samples of each free parameter; use sample 0 of a 1-list
+    from dataclasses import replace
+
+    free = [replace(f, samples=(0,)) for f in free]
+    cov = np.asarray(result.covariance_fitted)[np.ix_(keep, keep)]
+    q = result.quantile(level)
+    lo, hi = np.empty_like(kappa), np.empty_like(kappa)
+    for n, m in enumerate(models):
+        if free:
+            _, lk, sd = _band_parts([m], free, cov, result.values, 0, T)
+        else:
+            lk, sd = np.log(kappa[n]), np.zeros(T.size)
+        with np.errstate(over="ignore"):
+            lo[n] = np.exp(lk - q * sd)
+            hi[n] = np.exp(lk + q * sd)
+    return Sweep(param, vals, T, kappa, lo, hi, level)
+
+
+def grain_size_sweep(model: LatticeModel | None, lengths, temperature, result=None, *, mechanism: str = "boundary",
+                     level: float = 0.95, sample=0) -> Sweep:
+    """kappa against the boundary length (grain size) [m]; see :func:`sweep`.
+
+    Parameters
+    ----------
+    model : LatticeModel or None
+    lengths : array_like
+        Boundary lengths [m], > 0.
+    temperature : float or array_like
+        [K]
+    result : FitResult, optional
+        Adds a band (the boundary length itself is set, not propagated).
+    mechanism : str
+        Name of the boundary mechanism (default "boundary").
+    """
+    positive("lengths", lengths, unit="m")
+    return sweep(model, f"{mechanism}.length", lengths, temperature, result, level=level, sample=sample)
+
+
+# ---------------------------------------------------------------------------------
+# alloys
+# ---------------------------------------------------------------------------------
+
+def alloy_model(template: LatticeModel | None, material, gamma: float, *, extra_gamma: float = 0.0,
+                boundary_length: float | None = None, gruneisen: float | None = None, b: float = 3.0,
+                split_branches: bool | None = None) -> LatticeModel:
+    """A lattice model for an alloy host with point-defect parameter Gamma.
+
+    With a ``template``, its mechanisms are kept and adapted: the first
+    point-defect mechanism becomes Klemens' form with Gamma = ``gamma`` +
+    ``extra_gamma`` and the alloy's volume per atom; an Umklapp mechanism in
+    the Grüneisen form takes the alloy's mean atomic mass (its gamma is kept;
+    the branch velocity and Debye temperature follow the host); the branches
+    come from ``material`` (split like the template's). Without a template the
+    model is boundary (``boundary_length``, default 1 mm) + point defect +
+    Umklapp (``gruneisen``, default the material's).
+
+    Parameters
+    ----------
+    template : LatticeModel or None
+    material : Material
+        The (virtual-crystal) host.
+    gamma : float
+        Point-defect Gamma of the alloy [dimensionless].
+    extra_gamma : float
+        Added to gamma (dopants, vacancies) [dimensionless].
+    boundary_length : float, optional
+        Overrides the template's boundary length [m].
+    gruneisen : float, optional
+        Overrides the Grüneisen parameter.
+    b : float
+        Umklapp exponent divisor when no template.
+    split_branches : bool, optional
+        Default: as the template (two branches named L and T), else False.
+    """
+    g = float(gamma) + float(extra_gamma)
+    if template is None:
+        split = bool(split_branches)
+        sc = [Boundary(1e-3 if boundary_length is None else boundary_length),
+              PointDefect.from_gamma(g, material.volume_per_atom),
+              Umklapp.from_material(material, gruneisen=gruneisen, b=b)]
+        return LatticeModel.from_material(material, scattering=sc, split_branches=split)
+    split = (len(template.branches) > 1) if split_branches is None else bool(split_branches)
+    disp = template.branches[0].dispersion
+    branches = material.branches(split=split, dispersion=disp)
+    new = []
+    pd_done = False
+    for m in template.scattering:
+        if isinstance(m, PointDefect) and not pd_done:
+            m = PointDefect.from_gamma(g, material.volume_per_atom, name=m.name, applies_to=m.applies_to)
+            pd_done = True
+        elif isinstance(m, Umklapp) and m.gruneisen is not None:
+            kw = {"atomic_mass": material.atomic_mass * _u}
+            if gruneisen is not None:
+                kw["gruneisen"] = gruneisen
+            m = m.with_values(**kw)
+        elif isinstance(m, Boundary) and boundary_length is not None:
+            m = m.with_values(length=boundary_length)
+        new.append(m)
+    if not pd_done:
+        new.append(PointDefect.from_gamma(g, material.volume_per_atom))
+    return LatticeModel(branches, new, normal_correction=template.normal_correction, material=material.name)
+
+
+@dataclass(frozen=True)
+class AlloySweep:
+    """kappa against the alloy fraction.
+
+    Attributes
+    ----------
+    fractions : ndarray (n,)
+        x of A(1-x)B(x).
+    temperature : ndarray (m,)
+        [K]
+    kappa : ndarray (n, m)
+        [W/m/K]
+    gamma : ndarray (n,)
+        Point-defect Gamma used (alloy + isotopes + extra).
+    models : list of LatticeModel
+    """
+
+    fractions: np.ndarray
+    temperature: np.ndarray
+    kappa: np.ndarray
+    gamma: np.ndarray
+    models: list
+
+
+def _host(m):
+    from . import materials
+
+    return materials.get(m) if isinstance(m, str) else m
+
+
+def alloy_sweep(host_a, host_b, fractions, temperature, *, template: LatticeModel | None = None,
+                strain_epsilon: float = 0.0, extra_gamma: float = 0.0, isotopes: bool = True,
+                boundary_length: float | None = None, gruneisen: float | None = None,
+                split_branches: bool | None = None) -> AlloySweep:
+    """Lattice conductivity of A(1-x)B(x) against x in the virtual crystal.
+
+    For each x, :func:`kinetic.disorder.virtual_crystal` gives the host
+    (linear interpolation of mass, volume, velocities, Debye temperature,
+    Grüneisen parameter) and Abeles' Gamma(x) (plus natural-isotope Gamma if
+    ``isotopes``); :func:`alloy_model` builds the model.
+
+    Parameters
+    ----------
+    host_a, host_b : Material or preset name
+        End members (e.g. "Si", "Ge").
+    fractions : array_like
+        x values in [0, 1].
+    temperature : float or array_like
+        [K]
+    template : LatticeModel, optional
+        Mechanisms to keep (e.g. a fitted model of one end member).
+    strain_epsilon : float
+        Abeles' strain parameter epsilon (0: mass term only).
+    extra_gamma, boundary_length, gruneisen, split_branches
+        See :func:`alloy_model`.
+
+    Returns
+    -------
+    AlloySweep
+
+    References
+    ----------
+    Abeles, Phys. Rev. 131, 1906 (1963); Klemens, Proc. Phys. Soc. A 68, 1113 (1955).
+    """
+    from .disorder import virtual_crystal
+
+    a, b = _host(host_a), _host(host_b)
+    xs = _values("fractions", fractions)
+    if np.any((xs < 0) | (xs > 1)):
+        raise ParameterError(f"fractions must lie in [0, 1], got {xs[(xs < 0) | (xs > 1)][0]!r}")
+    T = np.atleast_1d(_check_T(temperature)).astype(float).ravel()
+    models, gammas = [], []
+    for x in xs:
+        mat, g = virtual_crystal(a, b, float(x), strain_epsilon=strain_epsilon, isotopes=isotopes)
+        models.append(alloy_model(template, mat, g, extra_gamma=extra_gamma, boundary_length=boundary_length,
+                                  gruneisen=gruneisen, split_branches=split_branches))
+        gammas.append(g + extra_gamma)
+    kappa = np.array([m.kappa(T) for m in models])
+    return AlloySweep(xs, T, kappa, np.array(gammas), models)
+
+
+@dataclass(frozen=True)
+class RowBoundary(Mechanism):
+    """Boundary scattering with one length per temperature row (for vectorised maps).
+
+    ``rate`` returns v_g / L_i on row i: use it with a temperature array that
+    holds one temperature per length, e.g. ``np.full(n, T0)``. Internal to
+    :func:`grain_alloy_map`; it has no fit parameters and is not saved in records.
+    """
+
+    lengths: tuple = (1e-6,)
+    name: str = "boundary"
+    applies_to: tuple | None = None
+
+    kind: ClassVar[str] = "boundary_rows"
+    _spec: ClassVar[dict] = {}
+
+    def rate(self, omega, T, branch):
+        omega = np.asarray(omega, dtype=float)
+        T = np.asarray(T, dtype=float)
+        L = np.asarray(self.lengths, dtype=float).reshape(-1, 1)
+        v = branch.group_velocity(omega)
+        r = v / L
+        return np.broadcast_to(r, np.broadcast_shapes(np.shape(r), omega.shape, T.shape))
+
+
+@dataclass(frozen=True)
+class GrainAlloyMap:
+    """kappa on a grid of alloy fractions x boundary lengths at one temperature.
+
+    Attributes
+    ----------
+    lengths : ndarray (nl,)
+        Boundary lengths [m].
+    fractions : ndarray (nx,)
+        Alloy fractions x.
+    temperature : float
+        [K]
+    kappa : ndarray (nx, nl)
+        [W/m/K]; row = fraction, column = length.
+    gamma : ndarray (nx,)
+    """
+
+    lengths: np.ndarray
+    fractions: np.ndarray
+    temperature: float
+    kappa: np.ndarray
+    gamma: np.ndarray
+
+
+def grain_alloy_map(model: LatticeModel | None, lengths, fractions, temperature: float, *, host_a, host_b,
+                    strain_epsilon: float = 0.0, extra_gamma: float = 0.0, isotopes: bool = True,
+                    mechanism: str = "boundary") -> GrainAlloyMap:
+    """kappa at one temperature on a grid of boundary lengths x alloy fractions.
+
+    Parameters
+    ----------
+    model : LatticeModel or None
+        Template (see :func:`alloy_model`); must have a boundary mechanism
+        named ``mechanism`` if given (its specularity is kept). None: the
+        default boundary + point defect + Umklapp model.
+    lengths : array_like
+        Boundary lengths [m], > 0.
+    fractions : array_like
+        x in [0, 1].
+    temperature : float
+        [K]
+    host_a, host_b : Material or preset name
+    strain_epsilon, extra_gamma, isotopes
+        See :func:`alloy_sweep`.
+
+    Returns
+    -------
+    GrainAlloyMap
+        ``kappa[i, j]`` for fraction i and length j; equal (to rounding) to
+        building each model separately.
+    """
+    from .disorder import virtual_crystal
+
+    a, b = _host(host_a), _host(host_b)
+    L = np.atleast_1d(positive("lengths", lengths, unit="m")).astype(float).ravel()
+    xs = _values("fractions", fractions)
+    if np.any((xs < 0) | (xs > 1)):
+        raise ParameterError(f"fractions must lie in [0, 1], got {xs[(xs < 0) | (xs > 1)][0]!r}")
+    T0 = np.atleast_1d(_check_T(temperature)).astype(float)
+    if T0.size != 1:
+        raise ParameterError(f"temperature must be a single number [K], got {T0.size} values")
+    T0 = float(T0[0])
+    Trow = np.full(L.size, T0)
+    out = np.empty((xs.size, L.size))
+    gam = np.empty(xs.size)
+    factor, applies = 1.0, None
+    if model is not None:
+        bnd = model.mechanism(mechanism)
+        if not isinstance(bnd, Boundary):
+            raise ParameterError(f"mechanism {mechanism!r} of the template is not a Boundary")
+        factor = bnd.effective_length / bnd.length
+        applies = bnd.applies_to
+    rows = RowBoundary(lengths=tuple((L * factor).tolist()), name=mechanism, applies_to=applies)
+    for i, x in enumerate(xs):
+        mat, g = virtual_crystal(a, b, float(x), strain_epsilon=strain_epsilon, isotopes=isotopes)
+        m = alloy_model(model, mat, g, extra_gamma=extra_gamma)
+        m = m.with_mechanism(rows) if model is not None else m.without("boundary").with_mechanism(rows)
+        out[i] = m.kappa(Trow)
+        gam[i] = g + extra_gamma
+    return GrainAlloyMap(L, xs, T0, out, gam)
+
+
+# ---------------------------------------------------------------------------------
+# zT against doping (single parabolic band)
+# ---------------------------------------------------------------------------------
+
+@dataclass(frozen=True)
+class DopingSweep:
+    """zT against the reduced Fermi level, single parabolic band.
+
+    Attributes
+    ----------
+    temperature : float
+        [K]
+    eta : ndarray
+        Reduced Fermi level (E_F - E_band)/(kB T).
+    seebeck : ndarray
+        |S| [V/K].
+    sigma : ndarray
+        [S/m]
+    lorenz : ndarray
+        [W Ohm/K^2]
+    kappa_electronic : ndarray
+        L sigma T [W/m/K].
+    kappa_lattice : float
+        [W/m/K], held fixed.
+    power_factor : ndarray
+        S^2 sigma [W/(m K^2)].
+    zt : ndarray
+    carrier_density : ndarray or None
+        [m^-3], when an effective mass was given.
+    best_eta, best_zt : float
+        Grid point of the largest zT.
+    measured_eta : float or None
+        eta of the measured (sigma, S) pair, if one was given.
+    """
+
+    temperature: float
+    eta: np.ndarray
+    seebeck: np.ndarray
+    sigma: np.ndarray
+    lorenz: np.ndarray
+    kappa_electronic: np.ndarray
+    kappa_lattice: float
+    power_factor: np.ndarray
+    zt: np.ndarray
+    carrier_density: np.ndarray | None
+    best_eta: float
+    best_zt: float
+    measured_eta: float | None
+
+
+def zt_vs_fermi_level(temperature: float, kappa_lattice: float, *, eta=None, weighted_mobility: float | None = None,
+                      sigma: float | None = None, seebeck: float | None = None, scattering="acoustic",
+                      effective_mass: float | None = None) -> DopingSweep:
+    """zT against the reduced Fermi level eta in the single-parabolic-band (SPB) model.
+
+    Assumptions (keep them in mind when reading the optimum):
+
+    * one parabolic band, rigid with doping; relaxation time ~ E^(lambda - 1/2)
+      with one scattering exponent (``scattering``, default acoustic phonons);
+    * the prefactor of sigma (the weighted mobility) does not change with
+      doping, and the lattice conductivity ``kappa_lattice`` does not either;
+    * no bipolar conduction (minority carriers ignored).
+
+    sigma(eta) then follows F_lambda(eta): from a measured pair it is
+    sigma_meas F_lambda(eta) / F_lambda(eta_meas) with eta_meas from the
+    measured |S|; from a weighted mobility mu_w (acoustic scattering only)
+    sigma = sigma_E0 ln(1 + e^eta), sigma_E0 = 8 pi e (2 m_e kB T)^(3/2) mu_w / (3 h^3).
+    S and L are the SPB values at eta (:mod:`kinetic.electronic`).
+
+    Parameters
+    ----------
+    temperature : float
+        [K]
+    kappa_lattice : float
+        [W/m/K], > 0.
+    eta : array_like, optional
+        Grid of reduced Fermi levels (default -4 to 8, 241 points).
+    weighted_mobility : float, optional
+        mu_w [m^2/(V s)] (acoustic scattering only).
+    sigma, seebeck : float, optional
+        A measured pair at this temperature: [S/m] and [V/K] (either sign).
+    scattering : str or float
+        As in :func:`kinetic.electronic.seebeck_spb`.
+    effective_mass : float, optional
+        Density-of-states mass [m_e]; adds the carrier density
+        n = (2 m* kB T / hbar^2)^(3/2) F_1/2(eta) / (2 pi^2).
+
+    Returns
+    -------
+    DopingSweep
+
+    Raises
+    ------
+    ParameterError
+        Neither or both of weighted_mobility and (sigma, seebeck); weighted
+        mobility with non-acoustic scattering; invalid numbers.
+
+    References
+    ----------
+    SPB transport: May & Snyder, in Materials, Preparation, and
+    Characterization in Thermoelectrics (CRC, 2012); weighted mobility:
+    Snyder et al., Adv. Mater. 32, 2001537 (2020), Eq. 1 (both from memory).
+    """
+    from .electronic import (fermi_integral, lorenz_spb_eta, reduced_fermi_level, scattering_exponent,
+                             seebeck_spb)
+
+    T = float(positive("temperature", temperature, unit="K"))
+    kl = float(positive("kappa_lattice", kappa_lattice, unit="W/m/K"))
+    lam = scattering_exponent(scattering)
+    grid = np.linspace(-4.0, 8.0, 241) if eta is None else _values("eta", eta)
+    have_pair = sigma is not None or seebeck is not None
+    if (weighted_mobility is None) == (not have_pair):
+        raise ParameterError("give either weighted_mobility [m^2/(V s)] or a measured (sigma, seebeck) pair")
+    measured_eta = None
+    if weighted_mobility is not None:
+        if lam != 0.0:
+            raise ParameterError("weighted_mobility uses the acoustic-scattering form; give a measured "
+                                 "(sigma, seebeck) pair for other scattering")
+        mu_w = float(positive("weighted_mobility", weighted_mobility, unit="m^2/(V s)"))
+        s_e0 = 8.0 * np.pi * _e * (2.0 * _me * _kB * T) ** 1.5 * mu_w / (3.0 * _h**3)
+        sig = s_e0 * np.logaddexp(0.0, grid)
+    else:
+        if sigma is None or seebeck is None:
+            raise ParameterError("a measured pair needs both sigma [S/m] and seebeck [V/K]")
+        s_m = float(positive("sigma", sigma, unit="S/m"))
+        measured_eta = float(reduced_fermi_level(seebeck, lam))
+        f_m = float(fermi_integral(lam, measured_eta))
+        sig = s_m * np.asarray(fermi_integral(lam, grid)) / f_m
+    S = np.asarray(seebeck_spb(grid, lam))
+    L = np.asarray(lorenz_spb_eta(grid, lam))
+    ke = L * sig * T
+    pf = S * S * sig
+    zt = pf * T / (kl + ke)
+    n = None
+    if effective_mass is not None:
+        ms = float(positive("effective_mass", effective_mass, unit="m_e"))
+        n = (2.0 * ms * _me * _kB * T / _hbar**2) ** 1.5 * np.asarray(fermi_integral(0.5, grid)) / (2.0 * np.pi**2)
+    i = int(np.argmax(zt))
+    return DopingSweep(T, grid, S, sig, L, ke, kl, pf, zt, n, float(grid[i]), float(zt[i]), measured_eta)
