@@ -5,7 +5,8 @@ Unit conversions are checked against hand-computed values from the definitions
 of the SI prefixes and units:
 
 * SI prefixes m = 1e-3, c = 1e-2, u (micro) = 1e-6: BIPM, The International
-  System of Units (SI Brochure), 9th ed. 2019, section 3 (table of prefixes).
+  System of Units (SI Brochure), 9th ed. 2019, section 3 (table of prefixes;
+  section numbers here from memory).
 * degree Celsius: t/degC = T/K - 273.15 (SI Brochure 9th ed. 2019, section 2.3.1).
 * degree Fahrenheit: T/K = (t/degF + 459.67) * 5/9 (NIST SP 811, 2008 ed.,
   Appendix B; from memory).
@@ -231,6 +232,12 @@ def test_comments_label_and_kind_come_from_the_file():
     assert "# heater power changed here" in ds.notes
     assert "# contact re-glued (line 8)" in ds.notes
     assert "# label: pellet B (invented)" in ds.notes
+
+
+def test_sample_comment_is_a_label_and_the_first_label_wins():
+    ds = parse_data("# sample: invented pellet C\n# label: later\nT, kappa\n10, 1\n", name="f.csv")
+    assert ds.label == "invented pellet C"
+    assert parse_data("T, kappa\n10, 1\n", name="dir/run_07.csv").label == "run_07"
 
 
 def test_arguments_override_comment_label_and_kind():
