@@ -17,7 +17,8 @@ from .scattering import (
     Precipitate,
 )
 from .lattice import LatticeModel, Spectrum
-from . import materials, disorder, estimates, electronic
+from . import materials, disorder, estimates, electronic, data
+from .data import Dataset, load_data, parse_data, load_series
 from .materials import Material
 from .disorder import (isotope_gamma, mass_fluctuation_gamma, compound_gamma, material_gamma, alloy_gamma,
                        virtual_crystal)
@@ -33,7 +34,8 @@ __all__ = [
     "KineticError", "ParameterError", "DataError", "RecordError", "FitError",
     "Parameter", "Branch", "Mechanism", "Boundary", "PointDefect", "Umklapp", "Normal",
     "ElectronPhonon", "Dislocation", "Precipitate", "LatticeModel", "Spectrum",
-    "materials", "disorder", "estimates", "electronic", "Material",
+    "materials", "disorder", "estimates", "electronic", "data", "Material",
+    "Dataset", "load_data", "parse_data", "load_series",
     "isotope_gamma", "mass_fluctuation_gamma", "compound_gamma", "material_gamma", "alloy_gamma",
     "virtual_crystal", "slack_kappa", "slack_kappa_for", "cahill_minimum", "cahill_minimum_for",
     "L0", "fermi_integral", "seebeck_spb", "lorenz_spb_eta", "reduced_fermi_level", "lorenz_spb",
