@@ -1565,8 +1565,9 @@ def _band_parts(models, free, cov_fitted, values, sample, temperature, x_of=None
     T = np.atleast_1d(np.asarray(temperature, dtype=float))
     model = models[sample]
     rel = [j for j, f in enumerate(free) if sample in f.samples]
+    k0 = np.asarray(model.kappa(T), dtype=float)
     with np.errstate(all="ignore"):
-        lk0 = np.log(model.kappa(T))
+        lk0 = np.log(k0)
     G = np.zeros((T.size, len(free)))
     for j in rel:
         f = free[j]
@@ -1582,7 +1583,7 @@ def _band_parts(models, free, cov_fitted, values, sample, temperature, x_of=None
     with np.errstate(invalid="ignore"):
         var = np.einsum("ij,jk,ik->i", G, C, G)
     var = np.where(np.isnan(var), np.inf, var)  # an undetermined parameter: no band
-    return T, lk0, np.sqrt(np.maximum(var, 0.0))
+    return T, lk0, np.sqrt(np.maximum(var, 0.0)), k0
 
 
 def predict_band(result, temperature, level: float = 0.95, *, sample=0) -> Band:
@@ -1610,9 +1611,8 @@ def predict_band(result, temperature, level: float = 0.95, *, sample=0) -> Band:
     """
     level = _level(level)
     i = _sample_index(result, sample)
-    T, lk, sd = _band_parts(result.models, result.free, result.covariance_fitted, result.values, i, temperature)
+    T, lk, sd, k = _band_parts(result.models, result.free, result.covariance_fitted, result.values, i, temperature)
     q = result.quantile(level)
-    k = np.exp(lk)
     with np.errstate(over="ignore"):
         return Band(temperature=T, kappa=k, lower=k * np.exp(-q * sd), upper=k * np.exp(q * sd), sd_ln=sd,
                     level=level)

@@ -147,7 +147,7 @@ def sweep(model: LatticeModel | None, param: str, values, temperature, result=No
     lo, hi = np.empty_like(kappa), np.empty_like(kappa)
     for n, m in enumerate(models):
         if free:
-            _, lk, sd = _band_parts([m], free, cov, result.values, 0, T)
+            _, lk, sd, _k = _band_parts([m], free, cov, result.values, 0, T)
         else:
             lk, sd = np.log(kappa[n]), np.zeros(T.size)
         with np.errstate(over="ignore"):
