@@ -46,8 +46,9 @@ The relative error of a point is s_i^2 = e_i^2 + s0^2:
   exactly the usual "relative errors equal and estimated from the scatter",
   i.e. the covariance scaled by the reduced chi^2.
 
-``weights="relative"`` forces the estimated scatter even when kappa_err is
-present; ``weights="errors"`` requires kappa_err (DataError otherwise).
+``weights="relative"`` estimates s0 even when kappa_err is present (the
+stated errors then act as a floor and s0 is the scatter beyond them);
+``weights="errors"`` requires kappa_err (DataError otherwise).
 
 Parameter space
 ---------------
@@ -712,7 +713,10 @@ class FitResult:
         s0, the estimated extra relative scatter (0 if the errors were believed).
     scatter_estimated : bool
     starts : list of float
-        Final cost (chi2 / 2) of every start, in the order run.
+        Final cost (chi2 / 2) of every start, in the order run, with the
+        weights used during the multi-start (when the scatter is estimated,
+        a provisional s0 = 2%, so these compare starts with each other, not
+        with ``chi2``).
     start_points : list of dict
         Starting values of every start.
     options : dict
