@@ -19,6 +19,11 @@ from .scattering import (
 from .lattice import LatticeModel, Spectrum
 from . import materials, disorder, estimates, electronic, data
 from .data import Dataset, load_data, parse_data, load_series
+from .fitting import fit, fit_joint, compare, profile_interval, bootstrap, predict_band, FitResult, default_model
+from .records import save_record, load_record, Record
+from .whatif import sweep, grain_size_sweep, alloy_sweep, grain_alloy_map, zt_vs_fermi_level
+from .report import report_figure, summary_table
+from . import demo
 from .materials import Material
 from .disorder import (isotope_gamma, mass_fluctuation_gamma, compound_gamma, material_gamma, alloy_gamma,
                        virtual_crystal)
@@ -36,6 +41,9 @@ __all__ = [
     "ElectronPhonon", "Dislocation", "Precipitate", "LatticeModel", "Spectrum",
     "materials", "disorder", "estimates", "electronic", "data", "Material",
     "Dataset", "load_data", "parse_data", "load_series",
+    "fit", "fit_joint", "compare", "profile_interval", "bootstrap", "predict_band", "FitResult",
+    "default_model", "save_record", "load_record", "Record", "sweep", "grain_size_sweep",
+    "alloy_sweep", "grain_alloy_map", "zt_vs_fermi_level", "report_figure", "summary_table", "demo",
     "isotope_gamma", "mass_fluctuation_gamma", "compound_gamma", "material_gamma", "alloy_gamma",
     "virtual_crystal", "slack_kappa", "slack_kappa_for", "cahill_minimum", "cahill_minimum_for",
     "L0", "fermi_integral", "seebeck_spb", "lorenz_spb_eta", "reduced_fermi_level", "lorenz_spb",
