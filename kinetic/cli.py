@@ -4,7 +4,7 @@ Subcommands::
 
     kinetic fit FILE [FILE ...] --material NAME [--mechanisms boundary,point_defect,umklapp]
                 [--free NAME ...] [--set NAME=VALUE ...] [--bounds NAME=LO:HI ...]
-                [--per-sample NAME ...] [--starts N] [--seed N] [--lorenz sommerfeld|spb|kim]
+                [--per-sample NAME ...] [--starts N] [--seed N] [--lorenz auto|sommerfeld|spb|kim]
                 [--weights auto|errors|relative] [--split] [--kind total|lattice]
                 [--tmin K] [--tmax K] [--save RECORD.json] [--report FIG.png] [--json] [--quiet]
     kinetic fit --demo [sample|grain]
@@ -117,8 +117,8 @@ def build_parser() -> argparse.ArgumentParser:
     f.add_argument("--bounds", action="append", metavar="NAME=LO:HI", help="bounds of a free parameter")
     f.add_argument("--starts", type=int, default=8, help="number of starts (default 8)")
     f.add_argument("--seed", type=int, default=0)
-    f.add_argument("--lorenz", default="sommerfeld", choices=("sommerfeld", "spb", "kim"),
-                   help="Lorenz number for the electronic part")
+    f.add_argument("--lorenz", default="auto", choices=("auto", "sommerfeld", "spb", "kim"),
+                   help="Lorenz number for the electronic part (auto: from the Seebeck coefficient when the file has one, else Sommerfeld)")
     f.add_argument("--weights", default="auto", choices=("auto", "errors", "relative"))
     f.add_argument("--kind", choices=("total", "lattice"), help="what a plain kappa column holds")
     f.add_argument("--tmin", type=float, help="use data at T >= TMIN [K]")

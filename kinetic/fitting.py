@@ -126,7 +126,7 @@ __all__ = [
 #: |r| above which a pair of parameters is flagged as strongly correlated.
 CORRELATION_LIMIT = 0.95
 #: Lorenz-number methods accepted for the electronic subtraction.
-LORENZ_METHODS = ("sommerfeld", "spb", "kim")
+LORENZ_METHODS = ("auto", "sommerfeld", "spb", "kim")
 #: Fraction of a parameter's fitted range within which it counts as "at a bound".
 _AT_BOUND = 1e-3
 #: Residual given to a model evaluation that is not finite (keeps the optimiser away).
@@ -214,14 +214,17 @@ class LatticeTarget:
     notes: tuple = ()
 
 
-def lattice_target(data, lorenz_method: str = "sommerfeld") -> LatticeTarget:
+def lattice_target(data, lorenz_method: str = "auto") -> LatticeTarget:
     """The lattice conductivity to fit: kappa itself, or kappa_total - L sigma T.
 
     Parameters
     ----------
     data : Dataset (or anything :func:`as_dataset` accepts)
-    lorenz_method : {"sommerfeld", "spb", "kim"}
+    lorenz_method : {"auto", "sommerfeld", "spb", "kim"}
         Lorenz number for the subtraction ("spb" and "kim" need a Seebeck column).
+        "auto" (default) takes the single-parabolic-band value from the Seebeck
+        coefficient when the data has one, else the Sommerfeld value: for a doped
+        semiconductor the Sommerfeld L0 can be ~40 % too high (Kim et al. 2015).
 
     Returns
     -------
@@ -238,6 +241,8 @@ def lattice_target(data, lorenz_method: str = "sommerfeld") -> LatticeTarget:
     if not isinstance(lorenz_method, str) or lorenz_method.lower() not in LORENZ_METHODS:
         raise ParameterError(f"lorenz_method must be one of {', '.join(LORENZ_METHODS)}, got {lorenz_method!r}")
     method = lorenz_method.lower()
+    if method == "auto":
+        method = "spb" if ds.seebeck is not None else "sommerfeld"
     name = ds.label or "data"
     T = np.asarray(ds.temperature, dtype=float)
     k = np.asarray(ds.kappa, dtype=float)
@@ -1178,7 +1183,7 @@ def _fit_core(models, datasets, labels, shared, per_sample, *, bounds, lorenz_me
 
 
 def fit(model: LatticeModel, data, free: Sequence[str], *, bounds: Mapping | None = None,
-        lorenz_method: str = "sommerfeld", n_starts: int = 8, seed: int = 0,
+        lorenz_method: str = "auto", n_starts: int = 8, seed: int = 0,
         progress: Callable | None = None, should_stop: Callable | None = None,
         weights: str = "auto", max_nfev: int | None = None) -> FitResult:
     """Fit free parameters of a lattice model to measured kappa(T).
@@ -1196,7 +1201,7 @@ def fit(model: LatticeModel, data, free: Sequence[str], *, bounds: Mapping | Non
         ``{name: (lower, upper)}`` in natural units, overriding the metadata
         bounds. Lower must be below upper (never swapped) and > 0 for log
         parameters.
-    lorenz_method : {"sommerfeld", "spb", "kim"}
+    lorenz_method : {"auto", "sommerfeld", "spb", "kim"}
         Lorenz number for the electronic subtraction.
     n_starts : int
         Number of starts (>= 1): the model's values plus a seeded Latin
@@ -1237,7 +1242,7 @@ def fit(model: LatticeModel, data, free: Sequence[str], *, bounds: Mapping | Non
 
 def fit_joint(models, datasets, shared: Sequence[str], per_sample: Sequence[str] = (), *,
               labels: Sequence[str] | None = None, bounds: Mapping | None = None,
-              lorenz_method: str = "sommerfeld", n_starts: int = 8, seed: int = 0,
+              lorenz_method: str = "auto", n_starts: int = 8, seed: int = 0,
               progress: Callable | None = None, should_stop: Callable | None = None,
               weights: str = "auto", max_nfev: int | None = None) -> FitResult:
     """Fit several samples at once: shared parameters take one value, per-sample ones one each.

@@ -34,7 +34,7 @@ def test_round_trip_rebuilds_the_same_model_to_the_bit(saved, result):
     assert rec.data == result.data
     assert rec.flags.to_dict() == result.flags.to_dict()
     assert (rec.chi2, rec.aic, rec.bic, rec.dof) == (result.chi2, result.aic, result.bic, result.dof)
-    assert rec.options["n_starts"] == 2 and rec.options["lorenz_method"] == "sommerfeld"
+    assert rec.options["n_starts"] == 2 and rec.options["lorenz_method"] == "auto"
     for n in result.names:
         assert rec.interval(n) == result.interval(n)
     b1, b2 = predict_band(result, T), predict_band(rec, T)
