@@ -14,6 +14,7 @@ from typing import Callable
 
 import ipywidgets as ipw
 
+from kinetic.errors import ParameterError
 from kinetic.parameters import Parameter
 
 from .style import css, fmt, mechanism_colour, mechanism_title
@@ -62,16 +63,21 @@ class ParameterControl(ipw.VBox):
     accepts (a value beyond the slider's range leaves the slider at its end).
     """
 
-    def __init__(self, key: str, parameter: Parameter, on_change: Callable | None = None):
+    def __init__(self, key: str, parameter: Parameter, on_change: Callable | None = None,
+                 on_error: Callable | None = None):
         self.key = key
         self.parameter = parameter
         self.on_change = on_change
+        self.on_error = on_error
         self._mute = False
         lo, hi = slider_range(parameter)
         self.range = (lo, hi)
         v = float(parameter.value)
-        common = dict(continuous_update=True, readout=True, readout_format=".3g",
-                      layout=ipw.Layout(width="15.5em"), style={"description_width": "0px"})
+        self._value = v
+        # small or large numbers read better in exponent form on the slider's readout
+        form = ".2e" if 0 < lo < 1e-3 or hi > 1e5 else ".3g"
+        common = dict(continuous_update=True, readout=True, readout_format=form,
+                      layout=ipw.Layout(width="16em"), style={"description_width": "0px"})
         if parameter.log:
             a, b = math.log10(lo), math.log10(hi)
             self.slider = ipw.FloatLogSlider(value=min(max(v, lo), hi), base=10.0, min=a, max=b,
@@ -79,8 +85,12 @@ class ParameterControl(ipw.VBox):
         else:
             self.slider = ipw.FloatSlider(value=min(max(v, lo), hi), min=lo, max=hi,
                                           step=(hi - lo) / SLIDER_STEPS, **common)
-        self.box = ipw.FloatText(value=v, layout=ipw.Layout(width="7.5em"))
-        self.label = ipw.HTML(value=f"<span title='{key}'>{parameter.label}</span>")
+        # exact entry: the text is read as a number when Enter is pressed or the box loses focus
+        self.box = ipw.Text(value=self._show(v), continuous_update=False, layout=ipw.Layout(width="7.5em"))
+        self._recent: list = []  # exact values set from Python since the last real slider move
+        self._remember(v)
+        self.label = ipw.HTML(value=f"<span title='{key}' style='font-size:92%'>{parameter.label}</span>",
+                              layout=ipw.Layout(height="1.3em", margin="0"))
         slug = key.replace(".", "-").replace("_", "-")
         self.slider.add_class(css("slider"))
         self.slider.add_class(css(f"slider-{slug}"))
@@ -89,38 +99,79 @@ class ParameterControl(ipw.VBox):
         self.slider.observe(self._from_slider, names="value")
         self.box.observe(self._from_box, names="value")
         super().__init__([self.label, ipw.HBox([self.slider, self.box])],
-                         layout=ipw.Layout(margin="0 0 2px 0"))
+                         layout=ipw.Layout(margin="0"))
+
+    @staticmethod
+    def _show(v: float) -> str:
+        """The box's text: six significant digits (the model keeps the exact value)."""
+        return f"{v:.6g}"
 
     # --- value --------------------------------------------------------------------
     @property
     def value(self) -> float:
-        """Current value [SI unit of the parameter] (the box holds the exact one)."""
-        return float(self.box.value)
+        """Current value [SI unit of the parameter]: the exact number in use."""
+        return self._value
 
     def set_value(self, value: float, notify: bool = False) -> None:
         """Show ``value`` in slider and box; call ``on_change`` only if ``notify``."""
         v = float(value)
+        self._value = v
+        self._remember(v)
         self._mute = True
         try:
-            self.box.value = v
+            self.box.value = self._show(v)
             self.slider.value = min(max(v, self.range[0]), self.range[1])
         finally:
             self._mute = False
         if notify and self.on_change is not None:
             self.on_change(self.key, v)
 
+    def _remember(self, v: float) -> None:
+        self._recent.append(float(v))
+        del self._recent[:-8]
+
     def set_disabled(self, disabled: bool) -> None:
         self.slider.disabled = disabled
         self.box.disabled = disabled
 
     # --- observers ----------------------------------------------------------------
+    def _position(self, v: float) -> float:
+        """Where a value sits along the slider (log10 of it for a log slider)."""
+        lo, hi = self.range
+        v = min(max(v, lo), hi)
+        return math.log10(v) if self.parameter.log else v
+
+    def _snaps_to(self, v: float, exact: float) -> bool:
+        return abs(self._position(v) - self._position(exact)) < 0.5 * float(self.slider.step) * (1 - 1e-9)
+
+    def is_echo(self, v: float) -> bool:
+        """True when slider value ``v`` is a value set from Python, rounded to a slider step.
+
+        The browser's slider rounds every value set from Python (the start
+        value, a fitted value) to its step grid and sends the rounded value
+        back, possibly after later values were set. A real move differs by at
+        least one step from all of them; an echo must not replace the exact value.
+        """
+        return any(self._snaps_to(v, r) for r in (self._value, *self._recent))
+
     def _from_slider(self, change):
         if self._mute:
             return
         v = float(change["new"])
+        if self.is_echo(v):
+            if not self._snaps_to(v, self._value):
+                # a late echo of an older value: show the value in use again
+                self._mute = True
+                try:
+                    self.slider.value = min(max(self._value, self.range[0]), self.range[1])
+                finally:
+                    self._mute = False
+            return
+        self._recent = []  # a real move: older values can no longer echo back unnoticed
+        self._value = v
         self._mute = True
         try:
-            self.box.value = v
+            self.box.value = self._show(v)
         finally:
             self._mute = False
         if self.on_change is not None:
@@ -129,7 +180,22 @@ class ParameterControl(ipw.VBox):
     def _from_box(self, change):
         if self._mute:
             return
-        v = float(change["new"])  # the model validates it (finite, in range) via on_change
+        text = str(change["new"]).strip()
+        try:
+            v = float(text)
+        except ValueError:
+            self._mute = True
+            try:
+                self.box.value = self._show(self._value)
+            finally:
+                self._mute = False
+            if self.on_error is not None:
+                self.on_error(ParameterError(
+                    f"{self.key} ({self.parameter.label}): expected a number such as 1.5e-6, got {text!r}"))
+            return
+        old = self._value
+        self._value = v  # the model validates it (finite, positive, ...) via on_change
+        self._remember(v)
         self._mute = True
         try:
             if math.isfinite(v):
@@ -137,7 +203,11 @@ class ParameterControl(ipw.VBox):
         finally:
             self._mute = False
         if self.on_change is not None:
-            self.on_change(self.key, v)
+            try:
+                self.on_change(self.key, v)
+            except Exception:
+                self._value = old
+                raise
 
 
 class MechanismCard(ipw.VBox):
@@ -162,7 +232,8 @@ class MechanismCard(ipw.VBox):
         Boxes of the fixed (material) parameters, in a folded "constants" section.
     """
 
-    def __init__(self, mechanism, on_change: Callable, on_toggle: Callable, enabled: bool = True):
+    def __init__(self, mechanism, on_change: Callable, on_toggle: Callable, enabled: bool = True,
+                 on_error: Callable | None = None):
         self.name = mechanism.name
         self.kind = mechanism.kind
         self._on_change = on_change
@@ -190,7 +261,7 @@ class MechanismCard(ipw.VBox):
                 self.constants[key] = box
                 fixed_rows.append(box)
             else:
-                ctl = ParameterControl(key, par, on_change=on_change)
+                ctl = ParameterControl(key, par, on_change=on_change, on_error=on_error)
                 self.controls[key] = ctl
                 rows.append(ctl)
         children = [ipw.HBox([swatch, self.toggle])] + rows

@@ -221,6 +221,8 @@ class FitPanel(ipw.VBox):
         self.cancel_button.disabled = False
 
         def work():
+            if not blocking:
+                self.wb.in_background()
             try:
                 res = fit(model, data, free, bounds=bounds, lorenz_method=method, n_starts=n_starts,
                           progress=self._progress, should_stop=self._stop.is_set)
@@ -310,7 +312,8 @@ class FitPanel(ipw.VBox):
             stats += f"; scatter estimated from the residuals ({100 * res.scatter:.2f}%)"
         else:
             stats += "; weights from the stated errors"
-        html = ("<table style='border-collapse:collapse;font-size:92%'><tr style='border-bottom:1px solid #999'>"
+        html = ("<style>.kinetic-fit-table td, .kinetic-fit-table th {padding: 1px 7px}</style>"
+                "<table style='border-collapse:collapse;font-size:92%'><tr style='border-bottom:1px solid #999'>"
                 "<th style='text-align:left'>parameter</th><th>value</th><th>uncertainty (1\u03c3)</th>"
                 "<th>95% interval</th><th>unit</th><th></th></tr>" + "".join(rows) + "</table>"
                 f"<div style='font-size:90%;margin-top:4px'>{stats}</div>")

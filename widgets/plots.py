@@ -387,7 +387,7 @@ class ConductivityPlot(Plot):
         "floor": "Cahill-Watson-Pohl floor",
     }
 
-    def __init__(self, width: float = 5.2, height: float = 3.7):
+    def __init__(self, width: float = 5.8, height: float = 3.9):
         super().__init__("conductivity", width, height)
         ax = self.ax
         ax.set_xscale("log")
@@ -480,7 +480,7 @@ class ConductivityPlot(Plot):
 class RatesPlot(Plot):
     """Relaxation rate of each mechanism against angular frequency at one temperature (log-log)."""
 
-    def __init__(self, width: float = 5.2, height: float = 3.7):
+    def __init__(self, width: float = 5.8, height: float = 3.9):
         super().__init__("rates", width, height)
         ax = self.ax
         ax.set_xscale("log")
@@ -539,7 +539,7 @@ class RatesPlot(Plot):
 class SpectrumPlot(Plot):
     """Spectral conductivity d\u03ba/d\u03c9 of each branch at one temperature."""
 
-    def __init__(self, width: float = 5.2, height: float = 3.7):
+    def __init__(self, width: float = 5.8, height: float = 3.9):
         super().__init__("spectrum", width, height)
         ax = self.ax
         ax.set_xlabel("angular frequency \u03c9 [rad " + _PER_S + "]")
@@ -575,7 +575,7 @@ class SpectrumPlot(Plot):
 class AccumulationPlot(Plot):
     """Cumulative conductivity against phonon mean free path, with the grain size marked."""
 
-    def __init__(self, width: float = 5.2, height: float = 3.7):
+    def __init__(self, width: float = 5.8, height: float = 3.9):
         super().__init__("mfp", width, height)
         ax = self.ax
         ax.set_xscale("log")

@@ -194,8 +194,13 @@ class SessionPanel(ipw.VBox):
                 cols.append(ds.kappa_err)
             el = wb.electronic()
             if el is not None:
+                # points where the subtraction left kappa_lattice <= 0 are not used: nan there
+                ke = np.full(T.shape, np.nan)
+                kl = np.full(T.shape, np.nan)
+                ke[el.kept] = el.kappa_electronic
+                kl[el.kept] = el.kappa
                 header += ["kappa_electronic [W/(m K)]", "kappa_lattice_measured [W/(m K)]"]
-                cols += [el.kappa_electronic, el.kappa_lattice]
+                cols += [ke, kl]
             header.append("kappa_lattice_model [W/(m K)]")
             cols.append(wb.model.kappa(T))
             return header, list(zip(*[np.asarray(c, float) for c in cols]))

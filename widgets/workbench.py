@@ -31,6 +31,7 @@ from .style import css, fmt, mechanism_title
 __all__ = ["Workbench", "default_model", "remake_for_material"]
 
 LORENZ_METHODS = (
+    ("automatic: single band if S is measured", "auto"),
     ("Sommerfeld value L\u2080 (degenerate)", "sommerfeld"),
     ("single parabolic band, from Seebeck", "spb"),
     ("Kim et al. formula, from Seebeck", "kim"),
@@ -163,6 +164,7 @@ class Workbench(ipw.VBox):
         self._cache: dict = {}
         self.result = None  # the last FitResult
         self._band = None  # (T, lower, upper) of the last fit's 95% band
+        self._background = threading.local()  # .active is True in the fit's worker thread
         if model is None and data is None:
             model, data = _demo()
         if model is None:
@@ -195,7 +197,8 @@ class Workbench(ipw.VBox):
     def _build(self, temperature: float):
         g = self.messages.guard
         # header and readouts
-        title = ipw.HTML("<h3 style='margin:0'>Thermal conductivity workbench</h3>")
+        title = ipw.HTML("<b style='font-size:120%'>Thermal conductivity workbench</b>",
+                         layout=ipw.Layout(margin="0 1.5em 0 0"))
         self.readouts = {k: ipw.HTML() for k in ("temperature", "lattice", "electronic", "total", "floor")}
         for k, w in self.readouts.items():
             w.add_class(css("readout"))
@@ -205,9 +208,9 @@ class Workbench(ipw.VBox):
         readout_box.add_class(css("readouts"))
         # chosen temperature
         self.temperature = ipw.FloatSlider(value=float(temperature), min=1.0, max=1500.0, step=1.0,
-                                           description="temperature [K]", readout_format=".0f",
-                                           continuous_update=True, style={"description_width": "8em"},
-                                           layout=ipw.Layout(width="24em"))
+                                           description="chosen temperature [K]", readout_format=".0f",
+                                           continuous_update=True, style={"description_width": "13em"},
+                                           layout=ipw.Layout(width="32em"))
         self.temperature.add_class(css("temperature"))
         self.temperature.observe(g(lambda ch: self.refresh(electronic=False)), names="value")
 
@@ -245,7 +248,7 @@ class Workbench(ipw.VBox):
         self.electronic_on = ipw.Checkbox(value=False, description="split off the electronic part (L\u03c3T)",
                                           indent=False)
         self.electronic_on.add_class(css("electronic"))
-        self.lorenz_choice = ipw.Dropdown(options=LORENZ_METHODS, value="sommerfeld",
+        self.lorenz_choice = ipw.Dropdown(options=LORENZ_METHODS, value="auto",
                                           description="Lorenz number", style={"description_width": "7em"},
                                           layout=ipw.Layout(width="22em"))
         self.lorenz_choice.add_class(css("lorenz"))
@@ -261,7 +264,7 @@ class Workbench(ipw.VBox):
             children=[self.data_panel, material_box,
                       ipw.VBox([self.mechanism_box, ipw.HBox([self.add_kind, self.add_button])]),
                       electronic_box],
-            selected_index=2, layout=ipw.Layout(width="30em"))
+            selected_index=2, layout=ipw.Layout(width="31em"))
         for i, t in enumerate(("Measured data", "Material and branches", "Scattering mechanisms",
                                "Electronic part")):
             self.sections.set_title(i, t)
@@ -281,9 +284,13 @@ class Workbench(ipw.VBox):
         self.work_tabs.add_class(css("work"))
         self._build_work_areas()
 
-        main = ipw.HBox([self.sections, ipw.VBox([self.temperature, self.figure_tabs])],
+        # the controls scroll on their own, so the figures stay in view beside them
+        controls = ipw.Box([self.sections], layout=ipw.Layout(max_height="560px", overflow="auto",
+                                                              flex="0 0 auto", margin="0 8px 0 0"))
+        main = ipw.HBox([controls, ipw.VBox([self.temperature, self.figure_tabs])],
                         layout=ipw.Layout(flex_flow="row wrap", align_items="flex-start"))
-        super().__init__([ipw.VBox([title, readout_box]), self.messages.output, main, self.work_tabs])
+        header = ipw.HBox([title, readout_box], layout=ipw.Layout(flex_flow="row wrap", align_items="center"))
+        super().__init__([header, self.messages.output, main, self.work_tabs])
         self.add_class(css("workbench"))
         self.data_panel.show(self.data)
         self._sync_electronic_controls()
@@ -328,7 +335,7 @@ class Workbench(ipw.VBox):
         g = self.messages.guard
         for m in self._full.scattering:
             card = MechanismCard(m, on_change=g(self._param_changed), on_toggle=g(self._toggled),
-                                 enabled=self._enabled.get(m.name, True))
+                                 enabled=self._enabled.get(m.name, True), on_error=self.messages.error)
             self.cards[m.name] = card
             self.controls.update(card.controls)
         self.mechanism_box.children = list(self.cards.values())
@@ -559,8 +566,8 @@ class Workbench(ipw.VBox):
             elif not self.electronic_on.value:
                 self.electronic_on.value = True
             self.lorenz_choice.disabled = not can_split
-            if ds is None or ds.seebeck is None:
-                self.lorenz_choice.value = "sommerfeld"
+            if (ds is None or ds.seebeck is None) and self.lorenz_choice.value in ("spb", "kim"):
+                self.lorenz_choice.value = "auto"
         finally:
             self._muted = False
         if ds is None:
@@ -600,22 +607,21 @@ class Workbench(ipw.VBox):
         return np.geomspace(max(lo, 0.5), hi, 140)
 
     def electronic(self):
-        """The electronic split at the data temperatures, or None.
+        """The electronic split of the measured data, or None.
 
-        Returns the :class:`kinetic.electronic.LatticeFromTotal` of the
-        measured data with the chosen Lorenz method, or None when the split is
-        off or impossible.
+        Returns the :class:`kinetic.fitting.LatticeTarget` the fit would use
+        (measured total minus L sigma T with the chosen Lorenz method, at the
+        points where that stays positive), or None when the split is off or
+        the data have no resistivity.
         """
         if "electronic" in self._cache:
             return self._cache["electronic"]
         ds = self.data
         out = None
         if ds is not None and self.electronic_on.value and ds.resistivity is not None and ds.kind == "total":
-            from kinetic.electronic import lattice_from_total
+            from kinetic.fitting import lattice_target
 
-            out = lattice_from_total(ds.temperature, ds.kappa, resistivity=ds.resistivity,
-                                     seebeck=ds.seebeck, method=self.lorenz_choice.value,
-                                     kappa_total_err=ds.kappa_err, on_nonpositive="keep")
+            out = lattice_target(ds, self.lorenz_choice.value)
         self._cache["electronic"] = out
         return out
 
@@ -638,13 +644,13 @@ class Workbench(ipw.VBox):
     def refresh(self, electronic: bool = True) -> None:
         """Recompute the readouts and the visible plot; mark the other plots stale.
 
-        Called from a background thread (a finished fit), plots only ask the
-        front end for a redraw instead of drawing in that thread.
+        Called from the fit's background thread (see :meth:`in_background`),
+        plots only ask the front end for a redraw instead of drawing there.
         """
         with self._lock:
             if electronic:
                 self._cache.pop("electronic", None)
-            in_thread = threading.current_thread() is not threading.main_thread()
+            in_thread = bool(getattr(self._background, "active", False))
             for p in self.plots.values():
                 p.stale = True
                 p.fast = not in_thread
@@ -656,6 +662,10 @@ class Workbench(ipw.VBox):
                     p.fast = True
             if hasattr(self, "whatif_panel"):
                 self.whatif_panel.model_changed()
+
+    def in_background(self) -> None:
+        """Mark the calling thread as a background worker (its refreshes do not draw)."""
+        self._background.active = True
 
     def fit_finished(self, result) -> None:
         """Keep a fit result (FitResult or loaded Record) and draw its prediction band."""
@@ -699,7 +709,7 @@ class Workbench(ipw.VBox):
         self.readouts["lattice"].value = f"lattice \u03ba = <b>{fmt(k0)}</b> W m\u207b\u00b9 K\u207b\u00b9"
         ke0 = None
         if el is not None:
-            T = self.data.temperature
+            T = el.temperature
             if T.min() <= T0 <= T.max():
                 ke0 = float(np.interp(T0, T, el.kappa_electronic))
         if ke0 is None:
@@ -733,11 +743,11 @@ class Workbench(ipw.VBox):
             measured = (ds.temperature, ds.kappa)
             label = "measured (lattice)" if ds.kind == "lattice" else "measured (total)"
             if el is not None:
-                Td = ds.temperature
+                Td = el.temperature
                 ke = np.asarray(el.kappa_electronic, float)
                 parts["electronic"] = (Td, ke)
                 parts["total"] = (Td, model.kappa(Td) + ke)
-                measured_lattice = (Td, np.asarray(el.kappa_lattice, float))
+                measured_lattice = (Td, np.asarray(el.kappa, float))
         band = self._band if self.result is not None else None
         self.plots["conductivity"].update(T, parts, measured=measured, measured_lattice=measured_lattice,
                                           band=band, marker=float(self.temperature.value),
