@@ -409,7 +409,7 @@ def test_whatif_studies_use_the_model_and_the_fit_band(wb):
     wb.fit_panel.use_fitted_values()
     wp = wb.whatif_panel
     wp.update_button.click()
-    assert set(wp.last) == {"grain", "alloy", "map", "zt"}
+    assert set(wp.last) == {"grain", "alloy", "map", "zt"}, wb.messages.messages
     lengths = wp.plots["grain"].lines["model"].get_xdata()
     direct = whatif.grain_size_sweep(wb.model, lengths, 300.0, wb.result)
     np.testing.assert_allclose(wp.plots["grain"].lines["model"].get_ydata(), direct.kappa[:, 0], rtol=1e-12)
@@ -507,3 +507,21 @@ def test_late_echo_of_an_older_value_is_ignored(wb):
     ctl.slider.value = 10 ** (round(np.log10(start) / step) * step)  # late echo of the start value
     assert wb.model.params["umklapp.gruneisen"] == fitted
     assert ctl.slider.value == pytest.approx(fitted, rel=1e-12)  # and the slider shows the fit again
+
+
+def test_bipolar_part_is_drawn_and_added_to_the_total(wb):
+    from kinetic.electronic import bipolar_kappa_activated
+
+    plot = wb.plots["conductivity"]
+    assert not plot.lines["bipolar"].get_visible()
+    total_before = np.array(plot.lines["total"].get_ydata())
+    wb.bipolar_on.value = True
+    wb.bipolar_controls["bipolar.band_gap"].box.value = "0.5"
+    T = wb.temperatures
+    expected = bipolar_kappa_activated(T, 0.05, 0.5)
+    np.testing.assert_allclose(plot.lines["bipolar"].get_ydata(), expected, rtol=1e-12)  # same call
+    Td = wb.electronic().temperature
+    # added and nothing else: equal up to the rounding of sums of ~10 W/m/K (1e-12 of the total)
+    np.testing.assert_allclose(plot.lines["total"].get_ydata() - total_before,
+                               bipolar_kappa_activated(Td, 0.05, 0.5), rtol=1e-9, atol=1e-12 * total_before.max())
+    assert "bipolar" in wb.readouts["bipolar"].value

@@ -20,6 +20,7 @@ import ipywidgets as ipw
 from kinetic import materials as _materials
 from kinetic.errors import ParameterError
 from kinetic.lattice import LatticeModel
+from kinetic.parameters import Parameter
 from kinetic.scattering import MECHANISMS, Boundary, Normal, PointDefect, Umklapp
 
 from .controls import MechanismCard, ParameterControl
@@ -37,6 +38,14 @@ LORENZ_METHODS = (
     ("Kim et al. formula, from Seebeck", "kim"),
 )
 _PLOT_ORDER = ("conductivity", "rates", "spectrum", "mfp")
+
+#: controls of the activated bipolar term (kinetic.electronic.bipolar_kappa_activated, exponent p = 1)
+BIPOLAR_PARAMETERS = {
+    "bipolar.prefactor": Parameter("prefactor", 0.05, unit="W m^-1 K^-2", description="bipolar prefactor C",
+                                   bounds=(1e-5, 10.0), log=True),
+    "bipolar.band_gap": Parameter("band_gap", 0.7, unit="eV", description="band gap E_g",
+                                  bounds=(0.05, 3.0), log=False),
+}
 _PLOT_TITLES = ("\u03ba(T)", "Scattering rates", "Spectrum", "Mean free path")
 
 
@@ -199,7 +208,8 @@ class Workbench(ipw.VBox):
         # header and readouts
         title = ipw.HTML("<b style='font-size:120%'>Thermal conductivity workbench</b>",
                          layout=ipw.Layout(margin="0 1.5em 0 0"))
-        self.readouts = {k: ipw.HTML() for k in ("temperature", "lattice", "electronic", "total", "floor")}
+        self.readouts = {k: ipw.HTML() for k in ("temperature", "lattice", "electronic", "bipolar", "total",
+                                                  "floor")}
         for k, w in self.readouts.items():
             w.add_class(css("readout"))
             w.add_class(css(f"readout-{k}"))
@@ -255,7 +265,19 @@ class Workbench(ipw.VBox):
         self.electronic_on.observe(g(self._electronic_changed), names="value")
         self.lorenz_choice.observe(g(self._electronic_changed), names="value")
         self.electronic_info = ipw.HTML()
-        electronic_box = ipw.VBox([self.electronic_on, self.lorenz_choice, self.electronic_info])
+        # bipolar part: kinetic.electronic.bipolar_kappa_activated, shown on the plot (not fitted)
+        self.bipolar_on = ipw.Checkbox(value=False, indent=False,
+                                       description="add a bipolar part C T exp(−Eg / 2kBT)")
+        self.bipolar_on.add_class(css("bipolar"))
+        self.bipolar_on.observe(g(lambda ch: self.refresh(electronic=False)), names="value")
+        self.bipolar_controls = {
+            key: ParameterControl(key, par, on_change=g(lambda k, v: self.refresh(electronic=False)),
+                                  on_error=self.messages.error)
+            for key, par in BIPOLAR_PARAMETERS.items()}
+        bipolar_note = ipw.HTML("<span style='font-size:85%;color:#666'>Minority carriers near the gap; "
+                                "shown and added to the total, not fitted.</span>")
+        electronic_box = ipw.VBox([self.electronic_on, self.lorenz_choice, self.electronic_info,
+                                   self.bipolar_on, *self.bipolar_controls.values(), bipolar_note])
 
         # data
         self.data_panel = DataPanel(self._set_data, self.messages)
@@ -625,6 +647,16 @@ class Workbench(ipw.VBox):
         self._cache["electronic"] = out
         return out
 
+    def bipolar(self, temperature):
+        """Bipolar part [W/m/K] at temperatures [K] when switched on, else None."""
+        if not self.bipolar_on.value:
+            return None
+        from kinetic.electronic import bipolar_kappa_activated
+
+        c = self.bipolar_controls
+        return bipolar_kappa_activated(np.asarray(temperature, dtype=float), c["bipolar.prefactor"].value,
+                                       c["bipolar.band_gap"].value)
+
     def floor(self, temperature):
         """Cahill-Watson-Pohl minimum of the material [W/m/K], or None without a preset."""
         if self._material is None:
@@ -712,12 +744,14 @@ class Workbench(ipw.VBox):
             T = el.temperature
             if T.min() <= T0 <= T.max():
                 ke0 = float(np.interp(T0, T, el.kappa_electronic))
-        if ke0 is None:
-            self.readouts["electronic"].value = ""
+        kb0 = self.bipolar(T0)
+        self.readouts["electronic"].value = "" if ke0 is None else f"electronic = {fmt(ke0)}"
+        self.readouts["bipolar"].value = "" if kb0 is None else f"bipolar = {fmt(float(kb0))}"
+        if ke0 is None and kb0 is None:
             self.readouts["total"].value = ""
         else:
-            self.readouts["electronic"].value = f"electronic = {fmt(ke0)}"
-            self.readouts["total"].value = f"total = <b>{fmt(k0 + ke0)}</b> W m\u207b\u00b9 K\u207b\u00b9"
+            total = k0 + (ke0 or 0.0) + (0.0 if kb0 is None else float(kb0))
+            self.readouts["total"].value = f"total = <b>{fmt(total)}</b> W m\u207b\u00b9 K\u207b\u00b9"
         fl = self.floor(T0)
         self.readouts["floor"].value = "" if fl is None else f"floor = {fmt(float(fl))}"
         self._k0 = k0
@@ -746,8 +780,14 @@ class Workbench(ipw.VBox):
                 Td = el.temperature
                 ke = np.asarray(el.kappa_electronic, float)
                 parts["electronic"] = (Td, ke)
-                parts["total"] = (Td, model.kappa(Td) + ke)
+                kb = self.bipolar(Td)
+                parts["total"] = (Td, model.kappa(Td) + ke + (0.0 if kb is None else kb))
                 measured_lattice = (Td, np.asarray(el.kappa, float))
+        kb = self.bipolar(T)
+        if kb is not None:
+            parts["bipolar"] = (T, kb)
+            if "total" not in parts:
+                parts["total"] = (T, k + kb)
         band = self._band if self.result is not None else None
         self.plots["conductivity"].update(T, parts, measured=measured, measured_lattice=measured_lattice,
                                           band=band, marker=float(self.temperature.value),
