@@ -16,8 +16,6 @@ from __future__ import annotations
 
 import datetime
 import json
-import math
-import os
 
 import matplotlib
 
@@ -28,10 +26,10 @@ import pytest
 import ipywidgets as ipw
 
 from kinetic import demo, materials
-from kinetic.fitting import fit, predict_band
+from kinetic.fitting import fit
 from kinetic.lattice import LatticeModel
 from kinetic.records import load_record
-from kinetic.scattering import Boundary, PointDefect, Umklapp
+from kinetic.scattering import Boundary, Umklapp
 from kinetic import whatif
 
 from widgets import MECHANISM_COLOURS, Workbench, default_model

@@ -19,35 +19,19 @@ import ipywidgets as ipw
 from kinetic.errors import FitError, ParameterError
 
 from .controls import slider_range
-from .style import css, fmt, mechanism_colour, mechanism_title
+from .style import css, fmt, mechanism_colour
 
 __all__ = ["FitPanel", "result_rows", "default_free"]
 
 
 def default_free(model) -> list:
-    """Free parameters ticked at first: the demo's choice where it applies, else one per mechanism.
+    """Free parameters ticked at first: the engine's choice (:func:`kinetic.fitting.default_free`)."""
+    from kinetic.fitting import default_free as engine_default_free
 
-    Returns names from ``model.params``.
-    """
-    names = set(model.params)
     try:
-        from kinetic.demo import DEFAULT_FREE
-
-        chosen = [n for n in DEFAULT_FREE if n in names]
-        if chosen:
-            return chosen
-    except ImportError:
-        pass
-    prefer = ("length", "gamma", "A", "gruneisen", "B", "C", "density", "number_density")
-    out = []
-    for m in model.scattering:
-        if not m.resistive:
-            continue
-        for p, par in m.parameters.items():
-            if not par.fixed and p in prefer:
-                out.append(f"{m.name}.{p}")
-                break
-    return out
+        return engine_default_free(model)
+    except ParameterError:
+        return []
 
 
 def result_rows(result, level: float = 0.95) -> list:
@@ -64,6 +48,12 @@ def result_rows(result, level: float = 0.95) -> list:
         rows.append({"name": n, "value": float(result.values[n]), "stderr": float(result.stderr[n]),
                      "lower": float(lo), "upper": float(hi), "unit": result.units.get(n, ""), "flag": flag})
     return rows
+
+
+def _limit() -> float:
+    from kinetic.fitting import CORRELATION_LIMIT
+
+    return CORRELATION_LIMIT
 
 
 def _esc(text) -> str:
@@ -318,6 +308,7 @@ class FitPanel(ipw.VBox):
                 "<th>95% interval</th><th>unit</th><th></th></tr>" + "".join(rows) + "</table>"
                 f"<div style='font-size:90%;margin-top:4px'>{stats}</div>")
         if res.n_free > 1:
+            CORRELATION_LIMIT = _limit()
             names = list(res.names)
             cells = "".join(f"<th>{_esc(n.split('.', 1)[-1])}</th>" for n in names)
             body = ""
@@ -325,7 +316,7 @@ class FitPanel(ipw.VBox):
                 tds = ""
                 for j in range(len(names)):
                     c = float(res.correlation[i, j])
-                    strong = i != j and abs(c) > 0.9
+                    strong = i != j and abs(c) > CORRELATION_LIMIT
                     style = "color:#b00020;font-weight:bold" if strong else ""
                     tds += f"<td style='text-align:right;{style}'>{c:+.2f}</td>"
                 body += f"<tr><td>{_esc(n)}</td>{tds}</tr>"

@@ -12,7 +12,7 @@ controls to the model and the model's answers to the plots.
 from __future__ import annotations
 
 import threading
-from dataclasses import fields
+from dataclasses import fields, replace
 
 import numpy as np
 import ipywidgets as ipw
@@ -21,7 +21,7 @@ from kinetic import materials as _materials
 from kinetic.errors import ParameterError
 from kinetic.lattice import LatticeModel
 from kinetic.parameters import Parameter
-from kinetic.scattering import MECHANISMS, Boundary, Normal, PointDefect, Umklapp
+from kinetic.scattering import MECHANISMS, PointDefect, Umklapp
 
 from .controls import MechanismCard, ParameterControl
 from .data_panel import DataPanel
@@ -38,6 +38,8 @@ LORENZ_METHODS = (
     ("Kim et al. formula, from Seebeck", "kim"),
 )
 _PLOT_ORDER = ("conductivity", "rates", "spectrum", "mfp")
+#: preset of the starting model when data come without a model (any preset would be a guess)
+DEFAULT_MATERIAL = "Si"
 
 #: controls of the activated bipolar term (kinetic.electronic.bipolar_kappa_activated, exponent p = 1)
 BIPOLAR_PARAMETERS = {
@@ -56,26 +58,30 @@ def _material_gamma(material):
         from kinetic.disorder import material_gamma
 
         return material_gamma(material)
-    except (ImportError, ParameterError):
-        return 1e-4
+    except ParameterError:
+        return 1e-3  # no composition: the same start value as kinetic.fitting.default_model
 
 
-def default_model(material="Si", *, grain_size: float = 1e-6, split_branches: bool = False) -> LatticeModel:
-    """Boundary + point defect + Umklapp + Normal for a preset material.
+def default_model(material="Si", *, grain_size: float = 1e-5, split_branches: bool = False,
+                  mechanisms=("boundary", "point_defect", "umklapp", "normal")) -> LatticeModel:
+    """The engine's starting model (:func:`kinetic.fitting.default_model`) with a chosen grain size.
 
-    Point-defect Gamma from the natural isotope mix of the composition
-    (:func:`kinetic.disorder.material_gamma`), Umklapp from the material's
-    Grüneisen parameter (:meth:`kinetic.Umklapp.from_material`); the
-    boundary length is ``grain_size`` [m].
+    Parameters
+    ----------
+    material : Material or str
+    grain_size : float
+        Boundary length [m].
+    split_branches : bool
+        One averaged branch or longitudinal + transverse.
+    mechanisms : sequence of str
+        As in :func:`kinetic.fitting.default_model`.
     """
-    mat = _materials.get(material) if isinstance(material, str) else material
-    scattering = [
-        Boundary(grain_size),
-        PointDefect.from_gamma(_material_gamma(mat), mat.volume_per_atom),
-        Umklapp.from_material(mat),
-        Normal(1e-24),
-    ]
-    return LatticeModel.from_material(mat, scattering=scattering, split_branches=split_branches)
+    from kinetic.fitting import default_model as engine_default
+
+    model = engine_default(material, list(mechanisms), split_branches=split_branches)
+    if "boundary.length" in model.params:
+        model = model.with_params({"boundary.length": float(grain_size)})
+    return model
 
 
 def remake_for_material(mechanism, material):
@@ -98,20 +104,20 @@ def remake_for_material(mechanism, material):
 
 
 def new_mechanism(kind: str, material=None, name: str | None = None):
-    """A mechanism of ``kind`` with the engine's defaults (and the material's constants)."""
+    """A mechanism of ``kind`` with the engine's start values (and the material's constants)."""
     if kind not in MECHANISMS:
         raise ParameterError(f"unknown mechanism kind {kind!r}; known: {', '.join(MECHANISMS)}")
     kw = {} if name is None else {"name": name}
-    if kind == "boundary":
-        return Boundary(1e-6, **kw)
+    if material is not None and kind in ("boundary", "point_defect", "umklapp", "normal"):
+        from kinetic.fitting import default_model as engine_default
+
+        kinds = [kind] if kind != "normal" else ["boundary", "normal"]
+        m = engine_default(material, kinds).mechanism(kind)
+        return m if name is None else replace(m, name=name)
     if kind == "point_defect":
-        if material is None:
-            return PointDefect(A=1e-44, **kw)
-        return PointDefect.from_gamma(_material_gamma(material), material.volume_per_atom, **kw)
+        return PointDefect(A=1e-44, **kw)
     if kind == "umklapp":
-        if material is None or material.gruneisen is None:
-            return Umklapp(B=1e-19, **kw)
-        return Umklapp.from_material(material, **kw)
+        return Umklapp(B=1e-19, **kw)
     m = MECHANISMS[kind](**kw)
     return m if material is None else remake_for_material(m, material)
 
@@ -177,8 +183,7 @@ class Workbench(ipw.VBox):
         if model is None and data is None:
             model, data = _demo()
         if model is None:
-            mat = _materials.get(self._guess_material(data))
-            model = default_model(mat)
+            model = default_model(DEFAULT_MATERIAL)
         if not isinstance(model, LatticeModel):
             raise ParameterError(f"model must be a kinetic.LatticeModel, got {type(model).__name__}")
         self._full = model
@@ -190,10 +195,6 @@ class Workbench(ipw.VBox):
         self.refresh()
 
     # --- set-up -------------------------------------------------------------------
-    @staticmethod
-    def _guess_material(data) -> str:
-        return "Si"
-
     @staticmethod
     def _lookup_material(name):
         if name is None:
