@@ -406,6 +406,9 @@ def test_whatif_studies_use_the_model_and_the_fit_band(wb):
     wb.fit_panel.run(blocking=True)
     wb.fit_panel.use_fitted_values()
     wp = wb.whatif_panel
+    wp.update_button.click()  # no alloy partner chosen yet for this host: no alloy studies
+    assert set(wp.last) == {"grain", "zt"} and "choose an alloy partner" in wp.status.value
+    wp.partner.value = "Ge"
     wp.update_button.click()
     assert set(wp.last) == {"grain", "alloy", "map", "zt"}, wb.messages.messages
     lengths = wp.plots["grain"].lines["model"].get_xdata()

@@ -19,6 +19,7 @@ from .style import PART_COLOURS, css, fmt, mechanism_colour
 __all__ = ["WhatIfPanel"]
 
 _W = "W m\u207b\u00b9 K\u207b\u00b9"
+NO_PARTNER = "(choose a partner)"
 
 
 class WhatIfPanel(ipw.VBox):
@@ -47,9 +48,9 @@ class WhatIfPanel(ipw.VBox):
         self.last: dict = {}
         names = _materials.names()
         host = workbench.material.name if workbench.material is not None else None
-        partners = [n for n in names if n != host]
-        usual = {"Si": "Ge", "Ge": "Si"}  # the classic pair; any other host starts with the first preset
-        default = usual.get(host) if usual.get(host) in partners else (partners[0] if partners else None)
+        partners = [NO_PARTNER] + [n for n in names if n != host]
+        usual = {"Si": "Ge", "Ge": "Si"}  # the classic pair; other hosts wait for the user's choice
+        default = usual.get(host) if usual.get(host) in partners else NO_PARTNER
         self.partner = ipw.Dropdown(options=partners, value=default, description="alloy with",
                                     style={"description_width": "6em"}, layout=ipw.Layout(width="16em"))
         self.partner.add_class(css("alloy-partner"))
@@ -59,7 +60,7 @@ class WhatIfPanel(ipw.VBox):
                                        description="keep the sample's own point defects")
         self.mobility = ipw.BoundedFloatText(value=100.0, min=1e-3, max=1e5,
                                              description="weighted mobility [cm\u00b2/(V s)]",
-                                             style={"description_width": "14em"}, layout=ipw.Layout(width="22em"))
+                                             style={"description_width": "16em"}, layout=ipw.Layout(width="24em"))
         self.update_button = ipw.Button(description="Update what-ifs", button_style="primary", icon="refresh",
                                         layout=ipw.Layout(width="12em"))
         self.update_button.add_class(css("whatif-update"))
@@ -82,13 +83,19 @@ class WhatIfPanel(ipw.VBox):
         super().__init__([controls, ipw.HBox([self.mobility, self.update_button]), self.status, grid])
         self.add_class(css("whatif-panel"))
         self._stale = True
+        self._computed_for = None
+
+    def _signature(self):
+        """What the studies depend on: the model in use, the temperature, the fit."""
+        wb = self.wb
+        return (repr(wb.model.to_dict()), float(wb.temperature.value), id(wb.result))
 
     def model_changed(self):
         """The workbench's model changed: mark the studies out of date (computing waits for the button)."""
-        if self.last and not self._stale:
+        if self.last and not self._stale and self._signature() != self._computed_for:
             self.status.value = ("The model changed since the studies were computed; press "
                                  "<b>Update what-ifs</b>.")
-        self._stale = True
+            self._stale = True
 
     # --- computing ------------------------------------------------------------------
     def update(self):
@@ -122,8 +129,8 @@ class WhatIfPanel(ipw.VBox):
         # alloy
         if mat is None:
             notes.append("the alloy studies need a material preset")
-        elif self.partner.value is None:
-            notes.append("no alloy partner to choose")
+        elif self.partner.value in (None, NO_PARTNER):
+            notes.append("choose an alloy partner above for the alloy studies")
         else:
             xs = np.linspace(0.0, 1.0, 41)
             extra = self._own_gamma(model) if self.keep_gamma.value else 0.0
@@ -147,6 +154,7 @@ class WhatIfPanel(ipw.VBox):
         if zt is not None:
             self.last["zt"] = zt
         self._stale = False
+        self._computed_for = self._signature()
         done = "Computed with the model in use at " + f"{fmt(T0)} K" + (
             " and the 95% band of the last fit." if result is not None else " (no fit yet, so no bands).")
         self.status.value = done + ("<br><span style='color:#666'>" + "; ".join(notes) + ".</span>" if notes else "")
