@@ -40,6 +40,17 @@ from .scattering import Mechanism, Normal, mechanism_from_dict
 
 __all__ = ["LatticeModel", "Spectrum"]
 
+#: Temperatures per block of the (T x node) arrays. Blocks of ~10^4 numbers
+#: (< 128 KiB) stay in the CPU cache and are served from the heap rather than by
+#: fresh memory maps, whose page faults cost more than the arithmetic on this
+#: size of array (measured: 2.5x slower for one 200 x 151 block on 2 cores).
+BLOCK_T = 64
+
+
+def _blocks(n: int):
+    """Slices covering range(n) in blocks of BLOCK_T temperatures (vectorised within a block)."""
+    return [slice(i, min(i + BLOCK_T, n)) for i in range(0, n, BLOCK_T)]
+
 
 @dataclass(frozen=True)
 class Spectrum:
@@ -249,8 +260,7 @@ class LatticeModel:
                 r_res = r_res + r
             else:
                 r_n = r_n + r
-        shape = np.broadcast_shapes(np.shape(omega), np.shape(T))
-        return np.broadcast_to(r_res, shape), np.broadcast_to(r_n, shape)
+        return np.asarray(r_res), np.asarray(r_n)
 
     def rates(self, omega, temperature) -> dict:
         """Relaxation rate of each mechanism on each branch.
@@ -270,8 +280,10 @@ class LatticeModel:
         """
         T = _check_T(temperature)
         omega = np.asarray(omega, dtype=float)
+        shape = np.broadcast_shapes(omega.shape, np.shape(T))
         return {
-            b.name: {m.name: m.rate(omega, T, b) for m in self.scattering if m.applies(b)}
+            b.name: {m.name: np.broadcast_to(m.rate(omega, T, b), shape).copy()
+                     for m in self.scattering if m.applies(b)}
             for b in self.branches
         }
 
@@ -333,8 +345,10 @@ class LatticeModel:
         Tf = np.atleast_1d(T).ravel()
         out = {}
         for b in self.branches:
-            I1, I2, I3, _ = self._branch_integrals(b, Tf)
-            k = I1 + np.divide(I2 * I2, I3, out=np.zeros_like(I1), where=I3 > 0)
+            k = np.empty_like(Tf)
+            for sl in _blocks(Tf.size):
+                I1, I2, I3, _ = self._branch_integrals(b, Tf[sl])
+                k[sl] = I1 + np.divide(I2 * I2, I3, out=np.zeros_like(I1), where=I3 > 0)
             out[b.name] = k.reshape(shape)
         return out
 
@@ -358,10 +372,11 @@ class LatticeModel:
         Tf = np.atleast_1d(T).ravel()
         total = np.zeros_like(Tf)
         for b in self.branches:
-            u, w, omega, pw = self._branch_nodes(b, Tf)
             pref = b.polarizations * b.q_max**3 * kB / (2.0 * np.pi**2)
-            f = pref * pw * u * u
-            total = total + np.einsum("ij,ij->i", w, f) + quad.lower_tail(u, f)
+            for sl in _blocks(Tf.size):
+                u, w, omega, pw = self._branch_nodes(b, Tf[sl])
+                f = pref * pw * u * u
+                total[sl] += np.einsum("ij,ij->i", w, f) + quad.lower_tail(u, f)
         return total.reshape(shape)
 
     def spectral(self, temperature: float, n_omega: int = 400) -> Spectrum:
@@ -380,7 +395,8 @@ class LatticeModel:
         for b in self.branches:
             I1, I2, I3, (u, w, omega, vg, base, tau_c, r_n) = self._branch_integrals(b, Tf)
             beta = float(I2[0] / I3[0]) if I3[0] > 0 else 0.0
-            tau_eff = tau_c * (1.0 + beta * r_n)
+            tau_eff = np.broadcast_to(tau_c * (1.0 + beta * r_n), u.shape)
+            vg = np.broadcast_to(vg, u.shape)
             contrib = (w * base * tau_eff)[0]
             # quadrature nodes carry the accumulation (tail folded into the lowest node)
             tail = float(quad.lower_tail(u, base * tau_eff)[0])
@@ -396,7 +412,7 @@ class LatticeModel:
             x = (hbar / kB) * om / T
             r_res, r_ng = self._split_rates(om, T, b)
             tau_cg = 1.0 / (r_res + r_ng)
-            tau_eg = tau_cg * (1.0 + beta * r_ng)
+            tau_eg = np.broadcast_to(tau_cg * (1.0 + beta * r_ng), om.shape)
             q = ug * b.q_max
             # d kappa / d omega = p/(6 pi^2) C v_g tau q^2   (dq / domega = 1 / v_g)
             dk = b.polarizations / (6.0 * np.pi**2) * kB * quad.planck_weight(x) * vgg * tau_eg * q * q

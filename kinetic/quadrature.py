@@ -92,15 +92,18 @@ def lower_tail(u: np.ndarray, integrand: np.ndarray) -> np.ndarray:
     Between the two lowest nodes the integrand F(u) is fitted by c u^p; the
     tail int_0^{u_0} c u^p du = u_0 F(u_0) / (p + 1) is returned for p > -1
     (an integrand that diverges as u -> 0 has no finite tail and gets 0: such a
-    model has no finite conductivity anyway).
+    model has no finite conductivity anyway). Only the first two columns are
+    read, so this costs little.
     """
-    f0, f1 = integrand[..., 0], integrand[..., 1]
-    u0, u1 = u[..., 0], u[..., 1]
-    ok = (f0 > 0) & (f1 > 0)
-    with np.errstate(divide="ignore", invalid="ignore"):
-        p = np.where(ok, np.log(np.where(ok, f1 / np.where(ok, f0, 1.0), 1.0)) / np.log(u1 / u0), 0.0)
-        tail = np.where(ok & (p > -0.9), u0 * f0 / (p + 1.0), 0.0)
-    return tail
+    f0 = integrand[..., 0]
+    f1 = integrand[..., 1]
+    u0 = u[..., 0]
+    log_ratio = float(np.log(u.flat[1] / u.flat[0]))  # the same for every row of a rule
+    with np.errstate(all="ignore"):
+        p = np.log(f1 / f0) / log_ratio
+        tail = u0 * f0 / (p + 1.0)
+    ok = (f0 > 0) & (f1 > 0) & (p > -0.9)
+    return np.where(ok, tail, 0.0)
 
 
 #: Below this x the Planck weight comes from its Taylor series (no exponential).
@@ -122,7 +125,7 @@ def planck_weight(x):
     out = 1.0 - x2 * (1.0 / 12.0 - x2 * (1.0 / 240.0 - x2 * (1.0 / 6048.0 - x2 * (1.0 / 172800.0
                                                                                   - x2 / 5322240.0))))
     big = x >= SERIES_X
-    if np.any(big):
+    if big.any():
         xb = x[big]
         e = np.exp(-xb)
         d = 1.0 - e

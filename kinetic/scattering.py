@@ -2,7 +2,9 @@
 
 Each mechanism returns a relaxation rate ``1/tau`` [s^-1] from
 ``rate(omega, T, branch)``, broadcasting over arrays of angular frequency
-``omega`` [rad s^-1] and temperature ``T`` [K]. Resistive rates add by
+``omega`` [rad s^-1] and temperature ``T`` [K]: the result broadcasts to the
+shape of omega x T (a rate that does not depend on T keeps omega's shape; use
+:meth:`kinetic.LatticeModel.rates` for full arrays). Resistive rates add by
 Matthiessen's rule inside :class:`kinetic.LatticeModel`; :class:`Normal`
 (momentum-conserving three-phonon processes) enters through Callaway's
 correction instead.
@@ -162,8 +164,8 @@ def _omega_T(omega, T):
 
 
 def _full(value, omega, T):
-    """``value`` broadcast (as a read-only view) to the shape of omega x T."""
-    return np.broadcast_to(value, np.broadcast_shapes(np.shape(value), omega.shape, T.shape))
+    """``value`` as an array; it broadcasts against omega x T (no copy is made)."""
+    return np.asarray(value)
 
 
 def _power(x, n: float):
