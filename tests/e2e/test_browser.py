@@ -88,6 +88,17 @@ def test_slider_moves_readout_and_figure(page, lab):
           f"(all {', '.join(f'{t:.0f}' for t in pixels_ms)} ms)")
     print(f"browser: readout went from {start_text!r} to {readout.inner_text()!r}")
 
+    # the Fit button runs the fit in a background thread of the kernel and fills the results table
+    page.locator(".kinetic-fit-starts input").fill("6")
+    page.locator(".kinetic-fit-starts input").press("Enter")
+    page.locator(".kinetic-fit").click()
+    expect(page.locator(".kinetic-fit-status")).to_contain_text("Fit done", timeout=60_000)
+    expect(page.locator(".kinetic-fit-status")).to_contain_text("6 start(s)")
+    expect(page.locator(".kinetic-fit-table")).to_contain_text("umklapp.gruneisen")
+    page.locator(".kinetic-fit-use").click()
+    # back at the fit the notebook made (same data, same best point: the same four digits)
+    expect(readout).to_have_text(start_text, timeout=30_000)
+
     # the README screenshot: the workbench as the user sees it, on a screen tall enough to hold it
     workbench = page.locator(".kinetic-workbench")
     height = int(workbench.bounding_box()["height"]) + 260
