@@ -229,7 +229,7 @@ def test_spectrum_and_mean_free_path_plots(wb):
     line = wb.plots["spectrum"].lines["avg"]
     np.testing.assert_allclose(line.get_ydata(), s.kappa_omega["avg"], rtol=1e-12)  # same call
     mfp = wb.plots["mfp"]
-    np.testing.assert_allclose(mfp.line.get_ydata(), s.kappa_accumulated[s.mfp > 0], rtol=1e-12)
+    np.testing.assert_allclose(mfp.line.get_ydata(), s.kappa_accumulated[s.mfp > 0], rtol=1e-12)  # same call
     assert mfp.grain.get_xdata()[0] == wb.model.params["boundary.length"]
     wb.figure_tabs.selected_index = 3
     wb.controls["boundary.length"].box.value = "3e-7"
@@ -256,6 +256,7 @@ def test_temperature_control_moves_readout_and_marker(wb):
 
 
 def test_axis_helpers():
+    # pytest.approx's default (1e-6 relative) absorbs the rounding of 10**x products
     assert nice_ceil(7.2) == 10.0 and nice_ceil(1.2) == 1.5 and nice_ceil(0.031) == pytest.approx(0.05)
     assert decade_limits(0.3, 47.0) == pytest.approx((0.1, 100.0))
     assert decade_limits(1e-3, 1e9, max_decades=6) == pytest.approx((1e3, 1e9))
@@ -352,8 +353,8 @@ def test_fit_blocking_and_use_fitted_values_moves_sliders(wb):
         assert wb.controls[k].value == v
         assert wb.model.params[k] == v
     # the sliders moved: log sliders show the fitted value as far as their steps allow
-    assert wb.controls["boundary.length"].slider.value == pytest.approx(res.values["boundary.length"], rel=1e-12)
-    np.testing.assert_allclose(_lattice_line(wb).get_ydata(), res.model.kappa(wb.temperatures), rtol=1e-12)
+    assert wb.controls["boundary.length"].slider.value == pytest.approx(res.values["boundary.length"], rel=1e-12)  # powers of ten round at 1e-16
+    np.testing.assert_allclose(_lattice_line(wb).get_ydata(), res.model.kappa(wb.temperatures), rtol=1e-12)  # same model
 
 
 def test_fit_runs_in_a_thread_with_progress(wb):
@@ -413,7 +414,7 @@ def test_whatif_studies_use_the_model_and_the_fit_band(wb):
     assert set(wp.last) == {"grain", "alloy", "map", "zt"}, wb.messages.messages
     lengths = wp.plots["grain"].lines["model"].get_xdata()
     direct = whatif.grain_size_sweep(wb.model, lengths, 300.0, wb.result)
-    np.testing.assert_allclose(wp.plots["grain"].lines["model"].get_ydata(), direct.kappa[:, 0], rtol=1e-12)
+    np.testing.assert_allclose(wp.plots["grain"].lines["model"].get_ydata(), direct.kappa[:, 0], rtol=1e-12)  # same call
     assert wp.plots["grain"].bands["last fit: 95% band"].get_visible()
     assert wp.last["map"].kappa.shape == (21, 31)
     assert "best" in wp.plots["zt"].title.get_text()
@@ -494,7 +495,7 @@ def test_browser_slider_echo_keeps_the_exact_value(wb):
     ctl.slider.value = snapped  # the echo from the front end
     assert wb.model.params["umklapp.gruneisen"] == 2.0582 and ctl.value == 2.0582
     ctl.slider.value = 10 ** (np.log10(snapped) + step)  # one real step: taken
-    assert wb.model.params["umklapp.gruneisen"] == pytest.approx(10 ** (np.log10(snapped) + step), rel=1e-12)
+    assert wb.model.params["umklapp.gruneisen"] == pytest.approx(10 ** (np.log10(snapped) + step), rel=1e-12)  # powers of ten round at 1e-16
 
 
 def test_late_echo_of_an_older_value_is_ignored(wb):
@@ -524,5 +525,6 @@ def test_bipolar_part_is_drawn_and_added_to_the_total(wb):
     Td = wb.electronic().temperature
     # added and nothing else: equal up to the rounding of sums of ~10 W/m/K (1e-12 of the total)
     np.testing.assert_allclose(plot.lines["total"].get_ydata() - total_before,
-                               bipolar_kappa_activated(Td, 0.05, 0.5), rtol=1e-9, atol=1e-12 * total_before.max())
+                               bipolar_kappa_activated(Td, 0.05, 0.5), rtol=1e-9,
+                               atol=1e-12 * total_before.max())
     assert "bipolar" in wb.readouts["bipolar"].value
