@@ -55,6 +55,8 @@ class MessageBoard:
 
     # --- showing ------------------------------------------------------------------
     def _show(self, level: str, text: str) -> None:
+        if self.messages and self.messages[-1] == (level, text):
+            return  # the same message again: shown once
         self.messages.append((level, text))
         del self.messages[:-self.keep]
         # append_stdout works with and without a kernel (no capture context needed)
