@@ -292,9 +292,11 @@ def default_model(material, mechanisms: Sequence[str] | None = None, *, split_br
     Start values (to be fitted, not claims about the material): boundary
     length 10 um; Gamma of the material's natural isotopes (periodictable via
     :func:`kinetic.disorder.material_gamma`), or 1e-3 without a composition;
-    Umklapp in the Grüneisen form with the material's Grüneisen parameter,
-    or 1.5 where the preset has none (a typical fitted value, common
-    practice), b = 3 (Slack & Galginaitis 1964); normal-process prefactor
+    Umklapp in the Grüneisen form with the preset's calibration on a
+    published k(T) table where it has one (``Material.umklapp_fit``: Si, Ge),
+    else the material's Grüneisen parameter, or 1.5 where the preset has none
+    (a typical fitted value, common practice), with b = 3 (Slack &
+    Galginaitis 1964); normal-process prefactor
     1e-24 s K^-3 (n = 2, m = 3).
 
     Parameters
@@ -335,7 +337,11 @@ def default_model(material, mechanisms: Sequence[str] | None = None, *, split_br
                 g = 1e-3
             sc.append(PointDefect.from_gamma(g, mat.volume_per_atom))
         elif m == "umklapp":
-            sc.append(Umklapp.from_material(mat, gruneisen=mat.gruneisen if mat.gruneisen else 1.5))
+            cal = (mat.umklapp_fit or {}).get("split" if split_branches else "avg")
+            if cal:
+                sc.append(Umklapp.from_material(mat, gruneisen=cal["gruneisen"], b=cal["b"]))
+            else:
+                sc.append(Umklapp.from_material(mat, gruneisen=mat.gruneisen if mat.gruneisen else 1.5))
         else:
             sc.append(Normal(1e-24))
     return LatticeModel.from_material(mat, scattering=sc, split_branches=split_branches)

@@ -58,6 +58,11 @@ class Material:
         Branch Debye temperatures overriding the Debye counting [K].
     kappa_300K : float, optional
         A reference room-temperature conductivity [W m^-1 K^-1].
+    umklapp_fit : mapping, optional
+        ``{"avg": {"gruneisen": g, "b": b}, "split": {...}}``: Umklapp
+        parameters calibrated on a published k(T) table for this engine's
+        averaged or split branches (see the preset's source); used as the
+        starting point of :func:`kinetic.fitting.default_model`.
     sources : mapping
         Field -> where the number comes from.
     formula : str
@@ -76,6 +81,7 @@ class Material:
     theta_longitudinal: float | None = None
     theta_transverse: float | None = None
     kappa_300K: float | None = None
+    umklapp_fit: Mapping | None = None
     sources: Mapping = field(default_factory=dict)
     formula: str = ""
 
@@ -136,6 +142,7 @@ class Material:
             "velocity_transverse", "velocity_debye", "gruneisen", "atoms_per_cell",
             "theta_longitudinal", "theta_transverse", "kappa_300K", "formula")}
         d["composition"] = dict(self.composition) if self.composition else None
+        d["umklapp_fit"] = {k: dict(v) for k, v in self.umklapp_fit.items()} if self.umklapp_fit else None
         return d
 
     @classmethod
@@ -193,5 +200,6 @@ def get(name: str) -> Material:
         atoms_per_cell=int(_value(p.get("atoms_per_cell")) or 1),
         composition=_value(p.get("composition")),
         kappa_300K=_value(p.get("kappa_300K")),
+        umklapp_fit=_value(p.get("umklapp_fit")),
         sources=sources,
     )

@@ -135,6 +135,14 @@ PRESETS: Dict[str, Preset] = {
                          "Glassbrenner & Slack (1964) measured 156 W/(m K) at 300 K "
                          "(third-party transcription of their table); natural "
                          "isotopes, high purity"),
+        "umklapp_fit": _f({"avg": {"gruneisen": 1.943, "b": 2.805},
+                            "split": {"gruneisen": 2.544, "b": 3.404}}, "1",
+                          "Glassbrenner & Slack, Phys. Rev. 134, A1058 (1964), 50-1000 K "
+                          "(reference/si_ge_kappa.csv), each point +-5 %",
+                          "computed: kinetic.fit of boundary length, Umklapp gamma and b with "
+                          "the isotope Gamma fixed (reduced chi2 0.85 averaged, 0.45 split)",
+                          "model-specific Umklapp calibration for kinetic's own branches; not a "
+                          "material constant and not comparable with Slack's gamma"),
         "composition": _f({"Si": 1}, "atoms per formula unit", "chemical formula",
                           "checked: matprop.ru/Si_basic"),
     },
@@ -189,6 +197,14 @@ PRESETS: Dict[str, Preset] = {
         "kappa_300K": _f(60.2, "W/(m K)", "CRC Handbook, as quoted on Wikipedia "
                          "'Germanium' (ltmlab.fr gives 60)",
                          "checked: cs.mcgill.ca wikispeedia copy of Wikipedia; ltmlab.fr"),
+        "umklapp_fit": _f({"avg": {"gruneisen": 1.868, "b": 3.36},
+                            "split": {"gruneisen": 2.383, "b": 3.81}}, "1",
+                          "Ho, Powell & Liley, J. Phys. Chem. Ref. Data 1, 279 (1972) values in "
+                          "reference/si_ge_kappa.csv, 100-1000 K (those values from memory)",
+                          "computed: kinetic.fit of boundary length, Umklapp gamma and b with "
+                          "the isotope Gamma fixed; b is poorly determined (+-1)",
+                          "model-specific Umklapp calibration; inherits the from-memory status "
+                          "of its input table"),
         "composition": _f({"Ge": 1}, "atoms per formula unit", "chemical formula",
                           "checked: matprop.ru/Ge_basic"),
     },

@@ -162,3 +162,16 @@ def test_isotope_gamma_of_silicon_gives_klemens_coefficient_near_holland():
     si = materials.get("Si")
     A = PointDefect.from_gamma(disorder.isotope_gamma("Si"), si.volume_per_atom).coefficient(si.branches()[0])
     assert A == pytest.approx(1.32e-45, rel=0.2)
+
+
+@pytest.mark.parametrize("split", [False, True])
+def test_silicon_default_model_reproduces_its_calibration_table(split):
+    # The Si preset's Umklapp calibration (gamma, b) was fitted to Glassbrenner & Slack (1964) with a
+    # free boundary length (0.3-0.6 mm). With a 1 mm boundary the default model must reproduce the
+    # 100-1000 K rows within 10 %: the table's stated +-5 % plus the fit's worst residual (~5 %).
+    from kinetic.fitting import default_model
+    m = default_model("Si", ["boundary", "point_defect", "umklapp"], split_branches=split)
+    m = m.with_params({"boundary.length": 1e-3})
+    T, k = _reference_rows("Si", "Glassbrenner")
+    sel = (T >= 100) & (T <= 1000)
+    np.testing.assert_allclose(m.kappa(T[sel]), k[sel], rtol=0.10)
