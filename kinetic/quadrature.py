@@ -99,11 +99,11 @@ def lower_tail(u: np.ndarray, integrand: np.ndarray) -> np.ndarray:
     f1 = integrand[..., 1]
     u0 = u[..., 0]
     log_ratio = float(np.log(u.flat[1] / u.flat[0]))  # the same for every row of a rule
-    with np.errstate(all="ignore"):
-        p = np.log(f1 / f0) / log_ratio
-        tail = u0 * f0 / (p + 1.0)
-    ok = (f0 > 0) & (f1 > 0) & (p > -0.9)
-    return np.where(ok, tail, 0.0)
+    ok = (f0 > 0) & (f1 > 0)
+    p = np.log(np.divide(f1, f0, out=np.ones_like(f0), where=ok)) / log_ratio
+    ok &= p > -0.9
+    tail = np.divide(u0 * f0, p + 1.0, out=np.zeros_like(f0), where=ok)
+    return tail
 
 
 #: Below this x the Planck weight comes from its Taylor series (no exponential).
