@@ -133,7 +133,7 @@ PRESETS: Dict[str, Preset] = {
                          "'Properties of silicon')",
                          "checked: el-cat.com",
                          "Glassbrenner & Slack (1964) measured 156 W/(m K) at 300 K "
-                         "(third-party transcription of their table); natural "
+                         "(third-party copy of their table); natural "
                          "isotopes, high purity"),
         "umklapp_fit": _f({"avg": {"gruneisen": 1.943, "b": 2.805},
                             "split": {"gruneisen": 2.544, "b": 3.404}}, "1",
@@ -171,7 +171,7 @@ PRESETS: Dict[str, Preset] = {
         "elastic_constants": _f({"C11": 126e9, "C12": 44e9, "C44": 67.7e9}, "Pa",
                                 "M. Levinshtein, S. Rumyantsev & M. Shur (eds.), Handbook "
                                 "Series on Semiconductor Parameters (Ioffe data)",
-                                "checked: transcription in the solcore5 repository, "
+                                "checked: copy in the solcore5 repository, "
                                 "material_data/Levinshtein/GroupIV.txt"),
         "velocity_longitudinal": _f(5279.0, "m/s",
                                     "direction average of the Christoffel L velocity",

@@ -1,7 +1,7 @@
 """Fit a Callaway model to the Glassbrenner & Slack (1964) k(T) table of natural silicon.
 
 Source of the data: reference/si_ge_kappa.csv, rows "Glassbrenner & Slack, Phys. Rev. 134,
-A1058 (1964)" (checked against a third-party transcription of their table; their abstract states
+A1058 (1964)" (checked against a third-party copy of their table; their abstract states
 +-5% accuracy). Rows above 1000 K are left out: there the measured k includes a bipolar electronic
 part (G&S abstract, reference/README.md), which a phonon-only model must not be asked to fit.
 
