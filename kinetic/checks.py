@@ -51,10 +51,7 @@ def _branch_kappa(model, branch, T: float, epsrel: float) -> float:
     pts = list(np.linspace(a, b, 30)[1:-1])
     kw = dict(epsabs=0.0, epsrel=epsrel, limit=1000, points=pts)
     I1 = integrate.quad(f1, a, b, **kw)[0]
-    has_n = model.normal_correction and any(
-        (not m.resistive) and m.applies(branch) for m in model.scattering
-    )
-    if not has_n:
+    if not model.has_normal_correction(branch):
         return I1
     I2 = integrate.quad(f2, a, b, **kw)[0]
     I3 = integrate.quad(f3, a, b, **kw)[0]

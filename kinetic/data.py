@@ -1013,7 +1013,7 @@ def _parse_header(line: str, hdr: _Header, delim: str | None, columns: Mapping[s
 
 def _decode(raw: bytes, name: str, encoding: str | None, notes: list[str]) -> str:
     if raw[:3] == b"\xef\xbb\xbf":
-        body, enc = raw[3:], "utf-8"
+        body = raw[3:]
     elif raw[:2] in (b"\xff\xfe", b"\xfe\xff"):
         try:
             return raw.decode("utf-16")
@@ -1021,7 +1021,7 @@ def _decode(raw: bytes, name: str, encoding: str | None, notes: list[str]) -> st
             raise DataError(f"{name}, line 1: not valid UTF-16 text although it starts with a "
                             f"UTF-16 byte-order mark ({exc.reason}); expected a text table") from None
     else:
-        body, enc = raw, None
+        body = raw
     nul = body.find(b"\x00")
     if nul >= 0:
         line = body.count(b"\n", 0, nul) + 1

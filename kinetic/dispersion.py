@@ -19,7 +19,7 @@ With ``theta = hbar v0 (6 pi^2 n)^(1/3) / kB`` a Debye branch holds exactly
 """
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 
 import numpy as np
 from scipy.constants import hbar, k as kB
@@ -123,9 +123,7 @@ class Branch:
         u = self.u_of_omega(omega)
         w = self.omega_of_u(u)
         q = u * self.q_max
-        with np.errstate(divide="ignore", invalid="ignore"):
-            vp = np.where(q > 0, w / np.where(q > 0, q, 1.0), self.velocity)
-        return vp
+        return np.where(q > 0, w / np.where(q > 0, q, 1.0), self.velocity)
 
     @property
     def mode_density(self) -> float:

@@ -1407,7 +1407,7 @@ def profile_interval(result: FitResult, name: str, level: float = 0.95, *, max_s
     ends, open_ = {}, {}
     for side, sign, bound in (("lower", -1.0, prob.lo[j]), ("upper", 1.0, prob.hi[j])):
         warm.pop(side, None)
-        prev_x, prev_d = x_best[j], 0.0
+        prev_x = x_best[j]
         step = s
         found = False
         for _ in range(max_steps):
@@ -1427,7 +1427,7 @@ def profile_interval(result: FitResult, name: str, level: float = 0.95, *, max_s
                 break
             if at_edge:
                 break
-            prev_x, prev_d = xj, d
+            prev_x = xj
             step *= 1.5
         if not found:
             ends[side], open_[side] = (bound if (sign < 0 and tried_x[-1] <= bound) or

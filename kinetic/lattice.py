@@ -25,7 +25,7 @@ beta = I2 / I3, which the spectral and mean-free-path outputs use.
 """
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 from typing import Iterable, Mapping
 
 import numpy as np
@@ -35,8 +35,7 @@ from . import quadrature as quad
 from ._validate import temperatures as _check_T, positive
 from .dispersion import Branch
 from .errors import ParameterError
-from .parameters import Parameter
-from .scattering import Mechanism, Normal, mechanism_from_dict
+from .scattering import Mechanism, mechanism_from_dict
 
 __all__ = ["LatticeModel", "Spectrum"]
 
@@ -249,6 +248,11 @@ class LatticeModel:
         return LatticeModel(**d)
 
     # --- rates --------------------------------------------------------------------
+    def has_normal_correction(self, branch: Branch) -> bool:
+        """True when Callaway's Normal-process term applies on this branch."""
+        return self.normal_correction and any(
+            (not m.resistive) and m.applies(branch) for m in self.scattering)
+
     def _split_rates(self, omega, T, branch):
         """Resistive and Normal rates [s^-1] on a common broadcast shape."""
         r_res = 0.0
@@ -325,8 +329,7 @@ class LatticeModel:
         pref = branch.polarizations * branch.q_max**3 * kB / (6.0 * np.pi**2)
         base = (pref * vg * vg) * pw * (u * u)  # integrand / tau, in du
         r_res, r_n = self._split_rates(omega, T[:, None], branch)
-        has_n = self.normal_correction and any(
-            (not m.resistive) and m.applies(branch) for m in self.scattering)
+        has_n = self.has_normal_correction(branch)
         r_c = r_res + r_n if has_n else r_res
         f1 = base / r_c
         I1 = np.einsum("ij,ij->i", w, f1) + quad.lower_tail(u, f1)

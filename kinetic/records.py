@@ -46,7 +46,7 @@ import numpy as np
 
 from .data import Dataset
 from .errors import ParameterError, RecordError
-from .fitting import FitFlags, FitResult, FreeParameter, LatticeTarget, _level, _sample_index
+from .fitting import FitFlags, FitResult, FreeParameter, LatticeTarget, _sample_index
 from .lattice import LatticeModel
 
 __all__ = ["SCHEMA", "VERSION", "Record", "save_record", "load_record", "record_dict", "record_from_dict",

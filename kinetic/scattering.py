@@ -18,11 +18,11 @@ coefficients are simply two mechanisms with different names.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass, field, fields, replace
+from dataclasses import dataclass, fields, replace
 from typing import ClassVar
 
 import numpy as np
-from scipy.constants import hbar, k as kB, atomic_mass
+from scipy.constants import hbar, atomic_mass
 
 from .dispersion import Branch
 from .errors import ParameterError

@@ -22,7 +22,7 @@ already vectorised over rows (temperatures), so a 50 x 50 map costs 50 calls.
 from __future__ import annotations
 
 from dataclasses import dataclass
-from typing import ClassVar, Sequence
+from typing import ClassVar
 
 import numpy as np
 from scipy.constants import atomic_mass as _u, e as _e, h as _h, hbar as _hbar, k as _kB, m_e as _me

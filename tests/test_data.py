@@ -16,8 +16,6 @@ from __future__ import annotations
 
 import hashlib
 import json
-import math
-import os
 import re
 import subprocess
 import sys

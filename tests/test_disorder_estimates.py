@@ -7,7 +7,7 @@ import numpy as np
 import pytest
 from scipy.constants import hbar, k as kB
 
-from kinetic import Boundary, Branch, LatticeModel, ParameterError, PointDefect, Normal, Umklapp, materials
+from kinetic import Boundary, Branch, LatticeModel, ParameterError, PointDefect, Normal, materials
 from kinetic import disorder, estimates
 from kinetic.checks import kappa_adaptive
 
