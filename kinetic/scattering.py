@@ -343,7 +343,14 @@ class Umklapp(Mechanism):
 
     @classmethod
     def from_material(cls, material, *, gruneisen: float | None = None, b: float = 3.0, **kw) -> "Umklapp":
-        """Slack-style Umklapp from a :class:`kinetic.materials.Material`."""
+        """Slack-style Umklapp from a :class:`kinetic.materials.Material`.
+
+        ``gruneisen`` defaults to the material's own (for the Si-type presets the
+        thermodynamic value, which makes Umklapp too weak in this model); pass
+        the preset's calibrated ``material.umklapp_fit["avg"|"split"]`` values,
+        as :func:`kinetic.fitting.default_model` does, for a model that
+        reproduces the reference k(T) table.
+        """
         g = material.gruneisen if gruneisen is None else gruneisen
         if g is None:
             raise ParameterError(
