@@ -1,0 +1,60 @@
+"""Published material numbers for kinetic's lattice-model presets (plain data).
+
+``PRESETS`` maps a material key to a dict of fields.  Each field is a dict::
+
+    {"value": float | str | dict | None,   # None = unknown (a gap, not a zero)
+     "unit":  str,                         # SI; "1" for dimensionless
+     "source": str,                        # published source, or the inputs used
+     "how":   str,                         # "checked: <where>" | "computed from ..." |
+                                           # "from memory" | "gap"
+     "note":  str}                         # optional: which kind of quantity it is
+
+Status words:
+
+* ``checked: <where>`` - the number is printed in the named place (often an
+  abstract, handbook page or data page; not necessarily the primary paper read
+  in full).
+* ``computed from ...`` - derived here with numpy/scipy (CODATA constants via
+  scipy.constants, IUPAC standard atomic weights via periodictable 2.1.0) from
+  the inputs named, each of which is itself sourced.
+* ``from memory`` - recalled, not found in a source during this work.  Confirm
+  against the original before a test or a default relies on it.
+* ``gap`` - no trustworthy number found; ``value`` is None.
+
+Conventions (see reference/README.md for the full caveats):
+
+* ``lattice_volume_per_atom`` comes from the lattice constants, never from the
+  quoted handbook density (they disagree by 1-6 % for PbTe, Bi2Te3, Mg2Si);
+  ``density`` is the X-ray density M_bar * u / V_atom so the preset is
+  self-consistent; the quoted handbook density is given in the note.
+* ``atoms_per_cell`` is Slack's n: atoms in the primitive cell.
+* ``velocity_longitudinal`` / ``velocity_transverse`` are direction averages
+  of the Christoffel-equation velocities computed from the elastic constants
+  (mean over 40,000 random directions; the two transverse modes are averaged
+  together), not VRH values; the VRH values are in the notes.
+  ``velocity_debye`` is the Debye average, 3/v_D^3 = <sum_i v_i^-3>.
+* ``gruneisen`` is the THERMODYNAMIC gamma_th = 3 alpha B / (rho c_p) at
+  about 300 K.  It is not the fitted gamma of Slack's formula or of the
+  Morelli-Heremans-Slack Callaway model, which are larger (about 1 for the
+  diamond-structure solids); those, where recalled, are in
+  ``gruneisen_slack`` (from memory).
+* ``debye_temperature`` says its kind in the note (low-temperature
+  calorimetric, elastic, X-ray ...).  ``debye_temperature_acoustic`` is
+  Slack's theta_a (acoustic-branch Debye temperature), from memory only.
+
+References are cited in full in each ``source`` string.  Nothing here is
+invented; a number without a source is a gap (None).
+"""
+from typing import Dict
+
+from ._fields import Field, Preset  # noqa: F401
+from .compounds import COMPOUNDS
+from .group_iv import GROUP_IV
+
+PRESETS: Dict[str, Preset] = {**GROUP_IV, **COMPOUNDS}
+
+#: Other names accepted for a preset key (lower case) -> key in PRESETS.
+ALIASES: Dict[str, str] = {"diamond": "C", "c": "C", "si": "Si", "ge": "Ge",
+                           "gaas": "GaAs", "pbte": "PbTe", "bi2te3": "Bi2Te3",
+                           "mg2si": "Mg2Si"}
+

@@ -1,0 +1,189 @@
+"""Compound presets: GaAs, PbTe, Bi2Te3, Mg2Si."""
+from typing import Dict
+
+from ._fields import _GS1964, _IUPAC, _KITTEL, _MS2006, Preset, _f, _gap  # noqa: F401
+
+COMPOUNDS: Dict[str, Preset] = {
+    "GaAs": {
+        "formula": _f("GaAs", "", "chemical formula", "checked: semi1source glossary"),
+        "structure": _f("zinc blende (F-43m, cF8)", "", "semi1source glossary",
+                        "checked: semi1source.com glossary"),
+        "atoms_per_cell": _f(2.0, "1", "zinc blende, 2-atom primitive cell",
+                             "checked: semi1source.com glossary"),
+        "lattice_constant": _f(5.653e-10, "m", "semi1source glossary (0.565 nm in text)",
+                               "checked: semi1source.com glossary"),
+        "atomic_mass": _f(72.3223, "u", _IUPAC, "computed from periodictable 2.1.0"),
+        "lattice_volume_per_atom": _f(2.25812e-29, "m^3", "a^3/8 with a = 5.653e-10 m",
+                                      "computed from lattice_constant"),
+        "density": _f(5318.3, "kg/m^3", "M_bar * u / V_atom",
+                      "computed from atomic_mass and lattice_volume_per_atom",
+                      "McSkimin et al. quote 5316.9 kg/m^3 (abstract, checked: "
+                      "scilit.net/publications/77b88c7bd5870dee967b3528e085d99b)"),
+        "debye_temperature": _f(345.0, "K", "J. S. Blakemore, J. Appl. Phys. 53, R123 "
+                                "(1982), as on Ioffe 'GaAs thermal properties'",
+                                "checked: ioffe.ru/SVA/NSM/Semicond/GaAs/thermal.html",
+                                "theta_0 from the low-temperature T^3 heat capacity; "
+                                "elastic theta_0 = 343.6 K computed from the C_ij below"),
+        "elastic_constants": _f({"C11": 118.77e9, "C12": 53.72e9, "C44": 59.44e9}, "Pa",
+                                "McSkimin, Jayaraman & Andreatch, elastic moduli of GaAs "
+                                "(25 C, adiabatic; abstract gives 1.1877, 0.5372, 0.5944 "
+                                "x 10^12 dyn/cm^2)",
+                                "checked: scilit.net/publications/77b88c7bd5870dee967b3528e085d99b"),
+        "velocity_longitudinal": _f(5156.0, "m/s",
+                                    "direction average of the Christoffel L velocity",
+                                    "computed from elastic_constants and density",
+                                    "VRH isotropic 5087 m/s; Ioffe [100] 4730 m/s (checked)"),
+        "velocity_transverse": _f(2992.0, "m/s",
+                                  "direction average of the two Christoffel T velocities",
+                                  "computed from elastic_constants and density",
+                                  "VRH isotropic 2962 m/s; Ioffe [100] 3340 m/s (checked)"),
+        "velocity_debye": _f(3262.0, "m/s", "3/v_D^3 = <sum_i v_i^-3> over directions",
+                             "computed from elastic_constants and density"),
+        "gruneisen": _f(0.74, "1", "gamma_th = 3 alpha B / (rho c_p) with B = 75.3 GPa, "
+                        "alpha = 5.73e-6 1/K, c_p = 0.33 J/(g K) (all Ioffe 'GaAs thermal "
+                        "properties', checked)",
+                        "computed from B, alpha, c_p, density",
+                        "THERMODYNAMIC gamma at 300 K; not the fitted Slack/MHS gamma"),
+        "gruneisen_slack": _f(0.75, "1", _MS2006, "from memory",
+                              "fitted gamma for Slack's formula"),
+        "debye_temperature_acoustic": _f(220.0, "K", _MS2006, "from memory",
+                                         "Slack's theta_a (acoustic branches only)"),
+        "kappa_300K": _f(55.0, "W/(m K)", "Ioffe 'GaAs thermal properties'",
+                         "checked: ioffe.ru/SVA/NSM/Semicond/GaAs/thermal.html",
+                         "other sources: 45.5 (PMC6927520 Table 2), 46 (semi1source); "
+                         "treat as +-10 %"),
+        "composition": _f({"Ga": 1, "As": 1}, "atoms per formula unit",
+                          "chemical formula", "checked: semi1source glossary"),
+    },
+    # ------------------------------------------------------------------ PbTe
+    "PbTe": {
+        "formula": _f("PbTe", "", "chemical formula",
+                      "checked: Wikipedia 'Lead telluride' copy"),
+        "structure": _f("rock salt (Fm-3m, cF8)", "", "Wikipedia 'Lead telluride' (CRC)",
+                        "checked: en.wikipedia.org/wiki/Lead_telluride copy"),
+        "atoms_per_cell": _f(2.0, "1", "rock salt, 2-atom primitive cell",
+                             "checked: Wikipedia 'Lead telluride' copy"),
+        "lattice_constant": _f(6.46e-10, "m", "Wikipedia 'Lead telluride' (CRC); AZoM/ESPI "
+                               "gives 6.454 A", "checked: Wikipedia copy; azom.com "
+                               "ArticleID=8431"),
+        "atomic_mass": _f(167.40, "u", _IUPAC, "computed from periodictable 2.1.0"),
+        "lattice_volume_per_atom": _f(3.36983e-29, "m^3", "a^3/8 with a = 6.46e-10 m",
+                                      "computed from lattice_constant"),
+        "density": _f(8248.9, "kg/m^3", "M_bar * u / V_atom (X-ray density)",
+                      "computed from atomic_mass and lattice_volume_per_atom",
+                      "handbook value 8164 kg/m^3 (Wikipedia/CRC, checked) is 1 % lower"),
+        "debye_temperature": _f(105.0, "K", "Sharov, 'Linear coefficient of thermal "
+                                "expansion and Debye temperature of PbTe at high "
+                                "temperatures', Phys. Solid State (abstract), 105 +- 3 K",
+                                "checked: j.ioffe.ru/articles/54581",
+                                "X-RAY (atomic displacement) Debye temperature, 293-573 K; "
+                                "a calorimetric theta is higher (~130-136 K, from memory)"),
+        "velocity_longitudinal": _gap("m/s", "PbTe elastic constants (Houston, Strakna & "
+                                      "Belson, J. Appl. Phys. 39, 3913 (1968)) not found; "
+                                      "remembered C_ij give a theta_0 that does not match "
+                                      "the checked thetas, so none is given"),
+        "velocity_transverse": _gap("m/s", "see velocity_longitudinal"),
+        "velocity_debye": _f(1139.0, "m/s", "v_D = (k_B theta/hbar)(6 pi^2 n_at)^(-1/3)",
+                             "computed from debye_temperature (105 K, X-ray) and "
+                             "lattice_volume_per_atom",
+                             "inherits the X-ray kind of theta: likely an underestimate"),
+        "gruneisen": _gap("1", "no bulk modulus / heat capacity found to form gamma_th; "
+                          "alpha = 19.7e-6 1/K (Sharov, checked) is known"),
+        "gruneisen_slack": _f(1.45, "1", _MS2006, "from memory", "low confidence"),
+        "kappa_300K": _f(2.30, "W/(m K)", "AZoM/ESPI 'Lead Telluride (PbTe) Semiconductors'",
+                         "checked: azom.com ArticleID=8431",
+                         "weak source; does not say total or lattice, nor the doping"),
+        "composition": _f({"Pb": 1, "Te": 1}, "atoms per formula unit",
+                          "chemical formula", "checked: Wikipedia 'Lead telluride' copy"),
+    },
+    # ------------------------------------------------------------------ Bi2Te3
+    "Bi2Te3": {
+        "formula": _f("Bi2Te3", "", "chemical formula",
+                      "checked: Wikipedia 'Bismuth telluride' mirror"),
+        "structure": _f("tetradymite, rhombohedral (R-3m, hR15)", "",
+                        "Wikipedia 'Bismuth telluride'; de.wikipedia (15 atoms per "
+                        "hexagonal cell)", "checked: review.clateway.com mirror; "
+                        "de.zxc.wiki/wiki/Bismuttellurid"),
+        "atoms_per_cell": _f(5.0, "1", "primitive rhombohedral cell = hexagonal cell "
+                             "(15 atoms, Z = 3) / 3", "computed from the checked hexagonal "
+                             "cell content"),
+        "lattice_constant": _f(4.395e-10, "m", "Wikipedia 'Bismuth telluride' (hexagonal a)",
+                               "checked: Wikipedia mirror",
+                               "MatWeb/AZoM give 4.38 A"),
+        "lattice_constant_c": _f(30.44e-10, "m", "Wikipedia 'Bismuth telluride' (hexagonal c)",
+                                 "checked: Wikipedia mirror", "MatWeb/AZoM give 30.45 A"),
+        "atomic_mass": _f(160.152, "u", _IUPAC, "computed from periodictable 2.1.0"),
+        "lattice_volume_per_atom": _f(3.39470e-29, "m^3",
+                                      "(sqrt(3)/2) a^2 c / 15 with a = 4.395 A, c = 30.44 A",
+                                      "computed from lattice_constant and lattice_constant_c"),
+        "density": _f(7834.0, "kg/m^3", "M_bar * u / V_atom (X-ray density)",
+                      "computed from atomic_mass and lattice_volume_per_atom",
+                      "handbook values 7740 (Wikipedia), 7730 (MatWeb), 7642 (de.wiki) "
+                      "are 1-2.5 % lower"),
+        "debye_temperature": _f(158.0, "K", "Jenkins, Rayne & Ure, 'Elastic moduli of "
+                                "Bi2Te3 from 4.2 K to 300 K', Phys. Lett. 30A (1969)",
+                                "checked: c.coek.info/pdf-elastic-moduli-of-bi2te3-from-42k-"
+                                "to-300k-.html",
+                                "ELASTIC theta_0 at 4.2 K, which the paper says agrees "
+                                "well with the calorimetric value"),
+        "elastic_constants": _f({"C11": 74.36e9, "C66": 26.19e9, "C33": 51.60e9,
+                                 "C44": 31.35e9, "C13": 15.41e9}, "Pa",
+                                "Jenkins, Rayne & Ure, Phys. Lett. 30A (1969), at 4.2 K "
+                                "(C14 not in the excerpt read)",
+                                "checked: c.coek.info copy of the paper"),
+        "velocity_longitudinal": _gap("m/s", "anisotropic crystal and C14 missing. A Hill "
+                                      "average of the 4.2 K moduli with C14 = 0 gives "
+                                      "v_L ~ 3000, v_T ~ 1880 m/s, but these imply theta "
+                                      "~ 190 K against the checked 158 K, so they are not "
+                                      "given as preset values"),
+        "velocity_transverse": _gap("m/s", "see velocity_longitudinal"),
+        "velocity_debye": _f(1718.0, "m/s", "v_D = (k_B theta/hbar)(6 pi^2 n_at)^(-1/3)",
+                             "computed from debye_temperature (158 K, elastic) and "
+                             "lattice_volume_per_atom"),
+        "gruneisen": _gap("1", "not found; ~1.5 remembered with low confidence"),
+        "kappa_300K": _f(1.54, "W/(m K)", "H. J. Goldsmid, as summarised in Witting et "
+                         "al., Research 2020, 4361703, Table 2 ('endpoint' lattice "
+                         "conductivity)",
+                         "checked: spj.sciencemag.org/journals/research/2020/4361703/tab2",
+                         "LATTICE conductivity, in-plane, Bi2Te3 end member; other "
+                         "authors in the same table 1.30-1.77; which column is Bi2Te3 "
+                         "is our reading of the table"),
+        "composition": _f({"Bi": 2, "Te": 3}, "atoms per formula unit",
+                          "chemical formula", "checked: Wikipedia 'Bismuth telluride' mirror"),
+    },
+    # ------------------------------------------------------------------ Mg2Si
+    "Mg2Si": {
+        "formula": _f("Mg2Si", "", "chemical formula", "checked: pveducation.org Mg2Si page"),
+        "structure": _f("antifluorite (Fm-3m, cF12)", "",
+                        "PVEducation 'Mg2Si' page citing O. Madelung, Semiconductors: "
+                        "Data Handbook (Springer, 2004)",
+                        "checked: pveducation.org/zh-hans/pvcdrom/mg2si"),
+        "atoms_per_cell": _f(3.0, "1", "antifluorite: 12 atoms per cubic cell, fcc "
+                             "lattice with a 3-atom basis", "checked: pveducation.org "
+                             "Mg2Si page (12 atoms/cubic cell)"),
+        "lattice_constant": _f(6.338e-10, "m", "PVEducation / Madelung (2004)",
+                               "checked: pveducation.org/zh-hans/pvcdrom/mg2si"),
+        "atomic_mass": _f(25.565, "u", _IUPAC, "computed from periodictable 2.1.0"),
+        "lattice_volume_per_atom": _f(2.12166e-29, "m^3", "a^3/12 with a = 6.338e-10 m",
+                                      "computed from lattice_constant"),
+        "density": _f(2000.9, "kg/m^3", "M_bar * u / V_atom (X-ray density)",
+                      "computed from atomic_mass and lattice_volume_per_atom",
+                      "the page's 1880 kg/m^3 is 6 % lower (probably not a single-"
+                      "crystal value)"),
+        "debye_temperature": _f(417.0, "K", "PVEducation / Madelung (2004)",
+                                "checked: pveducation.org/zh-hans/pvcdrom/mg2si",
+                                "kind not stated on the page (given at 300 K)"),
+        "velocity_longitudinal": _gap("m/s", "Mg2Si elastic constants (Whitten, Chung & "
+                                      "Danielson, J. Phys. Chem. Solids 26, 49 (1965)) "
+                                      "not found; remembered C_ij give theta_0 ~ 590 K "
+                                      "against the checked 417 K, so none is given"),
+        "velocity_transverse": _gap("m/s", "see velocity_longitudinal"),
+        "velocity_debye": _f(3877.0, "m/s", "v_D = (k_B theta/hbar)(6 pi^2 n_at)^(-1/3)",
+                             "computed from debye_temperature (417 K) and "
+                             "lattice_volume_per_atom"),
+        "gruneisen": _gap("1", "not found"),
+        "kappa_300K": _gap("W/(m K)", "not found in a source; ~8 remembered, unverified"),
+        "composition": _f({"Mg": 2, "Si": 1}, "atoms per formula unit",
+                          "chemical formula", "checked: pveducation.org Mg2Si page"),
+    },
+}

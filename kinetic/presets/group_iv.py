@@ -1,0 +1,202 @@
+"""Group-IV presets: Si, Ge, diamond (C)."""
+from typing import Dict
+
+from ._fields import _GS1964, _IUPAC, _KITTEL, _MS2006, Preset, _f, _gap  # noqa: F401
+
+GROUP_IV: Dict[str, Preset] = {
+    # ------------------------------------------------------------------ Si
+    "Si": {
+        "formula": _f("Si", "", "chemical formula", "checked: matprop.ru/Si_basic"),
+        "structure": _f("diamond (Fd-3m, cF8)", "",
+                        "Ioffe/matprop 'Basic parameters of Silicon'",
+                        "checked: matprop.ru/Si_basic"),
+        "atoms_per_cell": _f(2.0, "1", "diamond structure: 8 atoms per cubic cell, "
+                             "fcc lattice with a 2-atom basis",
+                             "checked: matprop.ru/Si_basic (8 atoms/cubic cell)"),
+        "lattice_constant": _f(5.43102e-10, "m",
+                               "Virginia Semiconductor, 'Basic Mechanical and Thermal "
+                               "Properties of Silicon' (22.5 C)",
+                               "checked: studylib.net/doc/7304847"),
+        "atomic_mass": _f(28.085, "u", _IUPAC, "computed from periodictable 2.1.0"),
+        "lattice_volume_per_atom": _f(2.00242e-29, "m^3", "a^3/8 with a = 5.43102e-10 m",
+                                      "computed from lattice_constant"),
+        "density": _f(2329.0, "kg/m^3", "M_bar * u / V_atom",
+                      "computed from atomic_mass and lattice_volume_per_atom",
+                      "matprop quotes 2.329 g/cm^3 (checked: matprop.ru/Si_basic)"),
+        "debye_temperature": _f(645.0, "K", _KITTEL,
+                                "checked: liquisearch.com/debye_model/debye_temperature_table",
+                                "table value, low-temperature heat-capacity kind; "
+                                "T->0 calorimetric theta_0 = 636 K ('Specific Heat of "
+                                "Germanium and Silicon at Low Temperatures', abstract, "
+                                "checked: scilit.net); elastic theta_0 = 645.5 K computed "
+                                "from the C_ij below; Ioffe gives 640 K"),
+        "elastic_constants": _f({"C11": 165.64e9, "C12": 63.94e9, "C44": 79.51e9}, "Pa",
+                                "Virginia Semiconductor note (its ref. [6])",
+                                "checked: studylib.net/doc/7304847"),
+        "velocity_longitudinal": _f(9020.0, "m/s",
+                                    "direction average of the Christoffel L velocity",
+                                    "computed from elastic_constants and density",
+                                    "VRH isotropic value 8948 m/s; [100] value 8433 m/s; "
+                                    "D. Murray (UBC) note gives 9017 m/s (checked: "
+                                    "geocities.ws/cofrest/md46.htm)"),
+        "velocity_transverse": _f(5370.0, "m/s",
+                                  "direction average of the two Christoffel T velocities",
+                                  "computed from elastic_constants and density",
+                                  "VRH isotropic value 5342 m/s; [100] 5843 m/s; "
+                                  "Murray note gives 5372 m/s"),
+        "velocity_debye": _f(5887.0, "m/s", "3/v_D^3 = <sum_i v_i^-3> over directions",
+                             "computed from elastic_constants and density"),
+        "gruneisen": _f(0.46, "1", "gamma_th = 3 alpha B / (rho c_p) with alpha = "
+                        "2.59e-6 1/K (Virginia Semiconductor note, checked: "
+                        "studylib.net/doc/7304847), B = (C11+2C12)/3 = 97.84 GPa, "
+                        "c_p = 0.702 J/(g K) (microwaves101 'Silicon', weak source)",
+                        "computed from alpha, elastic_constants, density, c_p",
+                        "THERMODYNAMIC gamma at 300 K, not the fitted Slack/MHS gamma"),
+        "gruneisen_slack": _f(1.06, "1", _MS2006, "from memory",
+                              "fitted gamma for Slack's formula; pair only with the "
+                              "theta_a of the same table and check the prefactor "
+                              "convention first (see reference/README.md)"),
+        "debye_temperature_acoustic": _f(395.0, "K", _MS2006, "from memory",
+                                         "Slack's theta_a (acoustic branches only)"),
+        "kappa_300K": _f(148.0, "W/(m K)",
+                         "CRC Handbook recommended value (as on el-cat.com "
+                         "'Properties of silicon')",
+                         "checked: el-cat.com",
+                         "Glassbrenner & Slack (1964) measured 156 W/(m K) at 300 K "
+                         "(third-party copy of their table); natural "
+                         "isotopes, high purity"),
+        "umklapp_fit": _f({"avg": {"gruneisen": 1.943, "b": 2.805},
+                            "split": {"gruneisen": 2.544, "b": 3.404}}, "1",
+                          "Glassbrenner & Slack, Phys. Rev. 134, A1058 (1964), 50-1000 K "
+                          "(reference/si_ge_kappa.csv), each point +-5 %",
+                          "computed: kinetic.fit of boundary length, Umklapp gamma and b with "
+                          "the isotope Gamma fixed (reduced chi2 0.85 averaged, 0.45 split)",
+                          "model-specific Umklapp calibration for kinetic's own branches; not a "
+                          "material constant and not comparable with Slack's gamma"),
+        "composition": _f({"Si": 1}, "atoms per formula unit", "chemical formula",
+                          "checked: matprop.ru/Si_basic"),
+    },
+    # ------------------------------------------------------------------ Ge
+    "Ge": {
+        "formula": _f("Ge", "", "chemical formula", "checked: matprop.ru/Ge_basic"),
+        "structure": _f("diamond (Fd-3m, cF8)", "",
+                        "Ioffe/matprop 'Basic Parameters of Germanium'",
+                        "checked: matprop.ru/Ge_basic"),
+        "atoms_per_cell": _f(2.0, "1", "diamond structure, 2-atom primitive cell",
+                             "checked: matprop.ru/Ge_basic"),
+        "lattice_constant": _f(5.658e-10, "m", "Ioffe/matprop 'Basic Parameters of "
+                               "Germanium'", "checked: matprop.ru/Ge_basic"),
+        "atomic_mass": _f(72.630, "u", _IUPAC, "computed from periodictable 2.1.0"),
+        "lattice_volume_per_atom": _f(2.26412e-29, "m^3", "a^3/8 with a = 5.658e-10 m",
+                                      "computed from lattice_constant"),
+        "density": _f(5326.8, "kg/m^3", "M_bar * u / V_atom",
+                      "computed from atomic_mass and lattice_volume_per_atom",
+                      "matprop quotes 5.3234 g/cm^3 (checked: matprop.ru/Ge_basic)"),
+        "debye_temperature": _f(374.0, "K", "Ioffe/matprop Ge basic; " + _KITTEL,
+                                "checked: matprop.ru/Ge_basic",
+                                "table value, low-temperature heat-capacity kind; "
+                                "T->0 calorimetric theta_0 = 363 K (same specific-heat "
+                                "abstract as Si, checked: scilit.net); elastic theta_0 "
+                                "= 372.1 K computed from the C_ij below"),
+        "elastic_constants": _f({"C11": 126e9, "C12": 44e9, "C44": 67.7e9}, "Pa",
+                                "M. Levinshtein, S. Rumyantsev & M. Shur (eds.), Handbook "
+                                "Series on Semiconductor Parameters (Ioffe data)",
+                                "checked: copy in the solcore5 repository, "
+                                "material_data/Levinshtein/GroupIV.txt"),
+        "velocity_longitudinal": _f(5279.0, "m/s",
+                                    "direction average of the Christoffel L velocity",
+                                    "computed from elastic_constants and density",
+                                    "VRH isotropic 5220 m/s; [100] 4864 m/s"),
+        "velocity_transverse": _f(3244.0, "m/s",
+                                  "direction average of the two Christoffel T velocities",
+                                  "computed from elastic_constants and density",
+                                  "VRH isotropic 3224 m/s; [100] 3565 m/s"),
+        "velocity_debye": _f(3536.0, "m/s", "3/v_D^3 = <sum_i v_i^-3> over directions",
+                             "computed from elastic_constants and density"),
+        "gruneisen": _f(0.73, "1", "gamma_th = 3 alpha B / (rho c_p) with alpha = "
+                        "5.84e-6 1/K (Reeber & Wang, Mater. Chem. Phys. 46, 259 (1996), "
+                        "checked: ltmlab.fr germanium page), B = 71.33 GPa from C_ij, "
+                        "C_p = 23.222 J/(mol K) (CRC via Wikipedia 'Germanium', checked)",
+                        "computed from alpha, elastic_constants, density, C_p",
+                        "THERMODYNAMIC gamma at 300 K (0.75 with alpha = 6.0e-6); "
+                        "not the fitted Slack/MHS gamma"),
+        "gruneisen_slack": _f(1.06, "1", _MS2006, "from memory",
+                              "fitted gamma for Slack's formula"),
+        "debye_temperature_acoustic": _f(235.0, "K", _MS2006, "from memory",
+                                         "Slack's theta_a (acoustic branches only)"),
+        "kappa_300K": _f(60.2, "W/(m K)", "CRC Handbook, as quoted on Wikipedia "
+                         "'Germanium' (ltmlab.fr gives 60)",
+                         "checked: cs.mcgill.ca wikispeedia copy of Wikipedia; ltmlab.fr"),
+        "umklapp_fit": _f({"avg": {"gruneisen": 1.868, "b": 3.36},
+                            "split": {"gruneisen": 2.383, "b": 3.81}}, "1",
+                          "Ho, Powell & Liley, J. Phys. Chem. Ref. Data 1, 279 (1972) values in "
+                          "reference/si_ge_kappa.csv, 100-1000 K (those values from memory)",
+                          "computed: kinetic.fit of boundary length, Umklapp gamma and b with "
+                          "the isotope Gamma fixed; b is poorly determined (+-1)",
+                          "model-specific Umklapp calibration; inherits the from-memory status "
+                          "of its input table"),
+        "composition": _f({"Ge": 1}, "atoms per formula unit", "chemical formula",
+                          "checked: matprop.ru/Ge_basic"),
+    },
+    # ------------------------------------------------------------------ diamond
+    "C": {
+        "name": _f("diamond", "", "alias: the key 'C' means diamond, not graphite",
+                   "checked: m-newton.ex.ac.uk (Sque, diamond data page)"),
+        "formula": _f("C", "", "chemical formula", "checked: Sque diamond page"),
+        "structure": _f("diamond (Fd-3m, cF8)", "",
+                        "J. Sque, Exeter diamond data page",
+                        "checked: m-newton.ex.ac.uk/.../sque.togo/diamond"),
+        "atoms_per_cell": _f(2.0, "1", "diamond structure, 2-atom primitive cell",
+                             "checked: Sque diamond page"),
+        "lattice_constant": _f(3.56683e-10, "m", "Sque diamond page (300 K; its refs. 1, 2, 4)",
+                               "checked: m-newton.ex.ac.uk/.../sque.togo/diamond"),
+        "atomic_mass": _f(12.011, "u", _IUPAC, "computed from periodictable 2.1.0"),
+        "lattice_volume_per_atom": _f(5.67227e-30, "m^3", "a^3/8 with a = 3.56683e-10 m",
+                                      "computed from lattice_constant",
+                                      "Sque page gives 1.763e23 atoms/cm^3 (agrees)"),
+        "density": _f(3516.2, "kg/m^3", "M_bar * u / V_atom",
+                      "computed from atomic_mass and lattice_volume_per_atom",
+                      "Sque page quotes 3515.25 kg/m^3 (checked); periodictable's "
+                      "carbon density is graphite's, do not use it"),
+        "debye_temperature": _f(2230.0, "K", _KITTEL,
+                                "checked: liquisearch.com/debye_model/debye_temperature_table",
+                                "table value, low-temperature heat-capacity kind; the "
+                                "high-T calorimetric single-Debye fit is 1860 K (273-1073 K) "
+                                "(Victor 1962, abstract, checked: scilit.com); elastic "
+                                "theta_0 = 2244 K computed from the C_ij below"),
+        "elastic_constants": _f({"C11": 1079e9, "C12": 123e9, "C44": 578e9}, "Pa",
+                                "Ioffe NSM 'Diamond: mechanical properties' sound "
+                                "velocities along [100] and [110] (17.52, 12.82; 18.32, "
+                                "12.82, 11.66 km/s) with rho = 3515.25 kg/m^3",
+                                "computed from the Ioffe velocities (checked: "
+                                "ioffe.ru/SVA/NSM/Semicond/Diamond/mechanic.html)"),
+        "velocity_longitudinal": _f(18170.0, "m/s",
+                                    "direction average of the Christoffel L velocity",
+                                    "computed from elastic_constants and density",
+                                    "VRH isotropic 18130 m/s; [100] 17520 m/s (Ioffe)"),
+        "velocity_transverse": _f(12350.0, "m/s",
+                                  "direction average of the two Christoffel T velocities",
+                                  "computed from elastic_constants and density",
+                                  "VRH isotropic 12340 m/s; [100] 12820 m/s (Ioffe)"),
+        "velocity_debye": _f(13440.0, "m/s", "3/v_D^3 = <sum_i v_i^-3> over directions",
+                             "computed from elastic_constants and density"),
+        "gruneisen": _f(0.73, "1", "gamma_th = 3 alpha B / (rho c_p) with alpha = "
+                        "1.0e-6 1/K (diamond-materials.com, checked), B = 442.3 GPa (Sque "
+                        "page, checked), c_p = 0.52 J/(g K) (Ioffe Diamond thermal, "
+                        "checked)",
+                        "computed from alpha, B, density, c_p",
+                        "THERMODYNAMIC gamma at 300 K; the published alpha values "
+                        "(0.8e-6 Ioffe, 1.0e-6, 1.05e-6 Sque) give 0.58-0.76; not the "
+                        "fitted Slack/MHS gamma"),
+        "gruneisen_slack": _f(0.75, "1", _MS2006, "from memory",
+                              "fitted gamma for Slack's formula"),
+        "debye_temperature_acoustic": _f(1450.0, "K", _MS2006, "from memory",
+                                         "Slack's theta_a (acoustic branches only)"),
+        "kappa_300K": _f(2300.0, "W/(m K)", "Sque diamond page (its ref. 12), type IIa",
+                         "checked: m-newton.ex.ac.uk/.../sque.togo/diamond",
+                         "type I: 895; high-purity synthetic with natural isotopes up to "
+                         "~2400 (Inyushkin et al., PRB 97, 144305 (2018), checked)"),
+        "composition": _f({"C": 1}, "atoms per formula unit", "chemical formula",
+                          "checked: Sque diamond page"),
+    },
+}
