@@ -1,0 +1,96 @@
+"""Shared helpers of the conductivity chain: units at the door, Lorenz choices (private)."""
+from __future__ import annotations
+
+import numpy as np
+
+from ..electronic import L0
+from ..errors import ParameterError
+
+#: Lorenz-number choices by name ("band" and "spb" are the same single-parabolic-band value from S).
+LORENZ_CHOICES = ("auto", "sommerfeld", "band", "spb", "kim")
+#: A given Lorenz number must lie in [L0/10, 10 L0]: the band model spans 0.30-2.43 L0 for scattering
+#: exponents -1 < lambda <= 6 ((2 + lambda)(kB/e)^2, computed) and room-temperature metals 0.86-0.98 L0
+#: (reference/metals_wiedemann_franz.csv); a factor of 10 either side still catches the common slip of
+#: giving L in units of 1e-8 (2.44 for 2.44e-8).
+LORENZ_RANGE = (0.1 * L0, 10.0 * L0)
+#: Relative slack at the ends of a measured temperature grid (a typed 600 may arrive as 600.0000000000001).
+_END_SLACK = 1e-9
+
+
+# ---------------------------------------------------------------------------------------------
+# units at the door
+def _si(value, unit: str, name: str):
+    """Plain numbers pass; a quantity with ``.to`` (pint) is converted to ``unit`` or refused."""
+    if hasattr(value, "to") and hasattr(value, "magnitude"):
+        try:
+            return np.asarray(value.to(unit).magnitude, dtype=float)
+        except Exception as exc:  # noqa: BLE001 - pint's DimensionalityError and friends
+            raise ParameterError(f"{name} must be given in units convertible to {unit}, got "
+                                 f"{getattr(value, 'units', '?')} ({type(exc).__name__})") from None
+    if isinstance(value, (str, bytes)) or isinstance(value, bool):
+        raise ParameterError(f"{name} must be a number or array [{unit}], got {value!r}")
+    try:
+        return np.asarray(value, dtype=float)
+    except (TypeError, ValueError):
+        raise ParameterError(f"{name} must be a number or array [{unit}], got {value!r}") from None
+
+
+def _kelvin(T, name: str = "temperature") -> np.ndarray:
+    """Temperatures [K]: plain numbers, or pint quantities (degC converted); finite and > 0."""
+    arr = _si(T, "K", name)
+    bad = ~np.isfinite(arr) | (arr <= 0)
+    if np.any(bad):
+        raise ParameterError(f"{name} must be finite and > 0 K, got {float(arr[bad].flat[0])!r}")
+    return arr
+
+
+def _check_positive(name: str, arr, unit: str) -> np.ndarray:
+    arr = np.asarray(arr, dtype=float)
+    bad = ~np.isfinite(arr) | (arr <= 0)
+    if np.any(bad):
+        raise ParameterError(f"{name} must be finite and > 0 [{unit}], got {float(arr[bad].flat[0])!r}")
+    return arr
+
+
+def _check_finite(name: str, arr, unit: str) -> np.ndarray:
+    arr = np.asarray(arr, dtype=float)
+    if not np.all(np.isfinite(arr)):
+        raise ParameterError(f"{name} must be finite [{unit}], got {float(arr[~np.isfinite(arr)].flat[0])!r}")
+    return arr
+
+
+def _frozen(arr) -> np.ndarray:
+    a = np.array(arr, dtype=float, copy=True)
+    a.setflags(write=False)
+    return a
+
+
+def _lorenz_spec(lorenz, have_seebeck: bool) -> tuple[str, float | None]:
+    """(electronic_kappa method, explicit L or None) for a Lorenz choice."""
+    if isinstance(lorenz, str):
+        key = lorenz.strip().lower()
+        if key not in LORENZ_CHOICES:
+            raise ParameterError(f"lorenz must be one of {', '.join(LORENZ_CHOICES)} or a number "
+                                 f"[W Ohm K^-2], got {lorenz!r}")
+        if key == "auto":
+            key = "band" if have_seebeck else "sommerfeld"
+        method = "spb" if key == "band" else key
+        if method in ("spb", "kim") and not have_seebeck:
+            raise ParameterError(f"lorenz={lorenz!r} needs a Seebeck coefficient [V/K]; give seebeck= "
+                                 "or use 'sommerfeld'")
+        return method, None
+    L = _si(lorenz, "W*ohm/K**2", "lorenz")
+    if L.ndim != 0 or not np.isfinite(L) or not LORENZ_RANGE[0] <= float(L) <= LORENZ_RANGE[1]:
+        raise ParameterError(f"lorenz must be a name or one number in [{LORENZ_RANGE[0]:.3g}, "
+                             f"{LORENZ_RANGE[1]:.3g}] W Ohm K^-2 (L0 = {L0:.4g}), got {lorenz!r}")
+    return "sommerfeld", float(L)
+
+
+def _electronic_flag(electronic) -> bool:
+    if isinstance(electronic, (bool, np.bool_)):
+        return bool(electronic)
+    if isinstance(electronic, str) and electronic.strip().lower() in ("auto", "none"):
+        return electronic.strip().lower() == "auto"
+    raise ParameterError(f"electronic must be True/False (or 'auto'/'none'), got {electronic!r}")
+
+
