@@ -3,6 +3,7 @@ from __future__ import annotations
 
 from collections.abc import Mapping
 from dataclasses import KW_ONLY, dataclass, field, replace
+from types import MappingProxyType
 
 import numpy as np
 
@@ -124,11 +125,7 @@ class ElectronicTerm:
         if callable(self.resistivity):
             rho = np.broadcast_to(_si(self.resistivity(T), "ohm*m", "resistivity(T)"), T.shape)
             _check_positive("resistivity(T)", rho, "Ohm m")
-            S = None
-            if self.seebeck is not None:
-                S = _check_finite("seebeck(T)", np.broadcast_to(_si(self.seebeck(T), "V/K", "seebeck(T)"),
-                                                                T.shape), "V/K")
-            return rho, S
+            return rho, self._seebeck_at(T)
         lo, hi = self.temperature_range
         out = ~self.inside(T)
         if np.any(out):
@@ -136,8 +133,15 @@ class ElectronicTerm:
                                  f"resistivity range {lo:g}-{hi:g} K; the electronic part is not extrapolated")
         Tc = np.clip(T, lo, hi)
         rho = np.interp(Tc, self.temperature, self.resistivity)
-        S = None if self.seebeck is None else np.interp(Tc, self.temperature, self.seebeck)
-        return rho, S
+        return rho, self._seebeck_at(Tc)
+
+    def _seebeck_at(self, T: np.ndarray):
+        S = self.seebeck
+        if S is None:
+            return None
+        if callable(S):
+            return _check_finite("seebeck(T)", np.broadcast_to(_si(S(T), "V/K", "seebeck(T)"), T.shape), "V/K")
+        return np.interp(T, self.temperature, S)
 
     def evaluate(self, T):
         """:class:`kinetic.electronic.ElectronicKappa` (value, uncertainty, L used) at T [K]."""
@@ -217,7 +221,7 @@ class BipolarTerm:
                 raise ParameterError(f"bipolar.{k} must be one number, got an array of shape {v.shape}")
             vals[k] = float(v)
         vals = {k: vals[k] for k in spec}
-        object.__setattr__(self, "values", vals)
+        object.__setattr__(self, "values", MappingProxyType(vals))
         self.kappa(np.array([300.0]))   # the formulas' own checks, named bipolar.<param> below
 
     @classmethod
