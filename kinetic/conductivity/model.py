@@ -95,8 +95,8 @@ class ConductivityModel:
                                ("bipolar", self.bipolar, BipolarTerm)):
             if not isinstance(obj, cls) and not (obj is None and name != "lattice"):
                 article = "an" if cls.__name__[0] in "AEIOU" else "a"
-                raise ParameterError(f"{name} must be {article} {cls.__name__}{'' if name == 'lattice' else ' or None'}, "
-                                     f"got {type(obj).__name__}")
+                optional = "" if name == "lattice" else " or None"
+                raise ParameterError(f"{name} must be {article} {cls.__name__}{optional}, got {type(obj).__name__}")
         if self.bipolar is not None and "bipolar" in self.lattice.mechanism_names:
             raise ParameterError("the lattice model has a mechanism named 'bipolar', which collides with the "
                                  "bipolar term's parameters; rename it with name='...'")
