@@ -563,3 +563,27 @@ def test_zt_bad_input():
         el.zt(300.0, 2e-4, sigma=0.0, kappa_lattice=0.0)
     with pytest.raises(ParameterError, match="exactly one of sigma"):
         el.power_factor(2e-4)
+
+
+# ---------------------------------------------------------------------------------------------
+# the package split: every public name importable from kinetic.electronic, from one home each
+def test_public_names_from_their_submodules():
+    import importlib
+
+    homes = {"fermi": {"fermi_integral"},
+             "band": {"SCATTERING_EXPONENTS", "scattering_exponent", "seebeck_spb", "lorenz_spb_eta",
+                      "seebeck_range_spb", "reduced_fermi_level", "lorenz_spb"},
+             "lorenz": {"L0", "KIM_STATED_ACCURACY", "lorenz_kim"},
+             "thermoelectric": {"ElectronicKappa", "electronic_kappa", "LatticeFromTotal", "lattice_from_total",
+                                "wiedemann_franz_kappa", "power_factor", "zt"},
+             "bipolar": {"bipolar_kappa_activated", "bipolar_kappa_two_band"}}
+    seen = {"KB_OVER_E"}
+    for mod, names in homes.items():
+        m = importlib.import_module(f"kinetic.electronic.{mod}")
+        assert names <= set(m.__all__), mod
+        for n in names:
+            assert getattr(el, n) is getattr(m, n), n
+        seen |= names
+    assert seen == set(el.__all__)
+    # the constants are the closed forms from CODATA (scipy.constants)
+    assert el.KB_OVER_E == KB_E and el.L0 == pytest.approx(math.pi ** 2 / 3 * KB_E ** 2, rel=1e-15)

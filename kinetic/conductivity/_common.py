@@ -6,6 +6,11 @@ import numpy as np
 from ..electronic import L0
 from ..errors import ParameterError
 
+try:  # the engine's one converter at the doors, where the package has it
+    from ..quantities import to_si as _to_si
+except ImportError:  # pragma: no cover - until kinetic.quantities is merged
+    _to_si = None
+
 #: Lorenz-number choices by name ("band" and "spb" are the same single-parabolic-band value from S).
 LORENZ_CHOICES = ("auto", "sommerfeld", "band", "spb", "kim")
 #: A given Lorenz number must lie in [L0/10, 10 L0]: the band model spans 0.30-2.43 L0 for scattering
@@ -22,6 +27,8 @@ _END_SLACK = 1e-9
 def _si(value, unit: str, name: str):
     """Plain numbers pass; a quantity with ``.to`` (pint) is converted to ``unit`` or refused."""
     if hasattr(value, "to") and hasattr(value, "magnitude"):
+        if _to_si is not None:
+            return np.asarray(_to_si(value, unit, name), dtype=float)
         try:
             return np.asarray(value.to(unit).magnitude, dtype=float)
         except Exception as exc:  # noqa: BLE001 - pint's DimensionalityError and friends
