@@ -327,3 +327,30 @@ def test_lorenz_range_brackets_physical_values():
     # band model (2 + lambda)(kB/e)^2 for lambda in (-1, 6] and L0 itself must be admissible
     lo, hi = LORENZ_RANGE
     assert lo < 1.0 * KB_E ** 2 and 8.0 * KB_E ** 2 < hi and lo < L0 < hi
+
+
+# ---------------------------------------------------------------------------------------------
+# what the workbench asks of the engine instead of deciding itself
+def test_electronic_options_follow_the_columns(demo_ds):
+    from kinetic.conductivity import LORENZ_LABELS, electronic_options
+
+    full = electronic_options(demo_ds)
+    assert full.available and full.lorenz_choices == ("auto", "sommerfeld", "spb", "kim")
+    no_s = electronic_options(Dataset.from_arrays([100.0, 200.0], [5.0, 4.0], resistivity=[1e-5, 2e-5]))
+    assert no_s.available and no_s.lorenz_choices == ("auto", "sommerfeld") and "Seebeck" in no_s.message
+    for ds in (None, Dataset.from_arrays([100.0], [5.0]), Dataset.from_arrays([100.0], [5.0], kind="lattice")):
+        opt = electronic_options(ds)
+        assert not opt.available and opt.lorenz_choices == () and opt.message
+    # every choice offered has plain words, and every one of them is accepted by the chain
+    for key in full.lorenz_choices:
+        assert LORENZ_LABELS[key]
+        lattice_target(demo_ds, lorenz=key)
+
+
+def test_bipolar_formula_words():
+    from kinetic.conductivity import BIPOLAR_FORMS
+
+    assert BIPOLAR_FORMS == ("activated", "two_band")
+    assert BipolarTerm.activated().formula.startswith("C T exp(")
+    assert "T^2" in BipolarTerm.activated(exponent=2.0).formula
+    assert "S_p" in BipolarTerm.two_band(1e4, 1e4, -1e-4, 1e-4).formula

@@ -34,10 +34,11 @@ True
 """
 from __future__ import annotations
 
-from ._common import LORENZ_CHOICES, LORENZ_RANGE
+from ._common import LORENZ_CHOICES, LORENZ_LABELS, LORENZ_RANGE
 from .model import ConductivityModel, ConductivityParts
-from .target import LatticeTarget, lattice_target
-from .terms import BipolarTerm, ElectronicTerm
+from .target import ElectronicOptions, LatticeTarget, electronic_options, lattice_target
+from .terms import BIPOLAR_FORMS, BipolarTerm, ElectronicTerm
 
-__all__ = ["LORENZ_CHOICES", "LORENZ_RANGE", "ElectronicTerm", "BipolarTerm", "ConductivityParts",
-           "ConductivityModel", "LatticeTarget", "lattice_target"]
+__all__ = ["LORENZ_CHOICES", "LORENZ_LABELS", "LORENZ_RANGE", "BIPOLAR_FORMS", "ElectronicTerm", "BipolarTerm",
+           "ConductivityParts", "ConductivityModel", "LatticeTarget", "lattice_target", "ElectronicOptions",
+           "electronic_options"]

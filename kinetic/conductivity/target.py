@@ -11,7 +11,7 @@ from ..errors import DataError, ParameterError
 from ._common import _electronic_flag, _lorenz_spec
 from .terms import BipolarTerm
 
-__all__ = ["LatticeTarget", "lattice_target"]
+__all__ = ["LatticeTarget", "lattice_target", "ElectronicOptions", "electronic_options"]
 
 
 @dataclass(frozen=True)
@@ -124,3 +124,41 @@ def _drop_nonpositive(name, T, kl, kl_err, meas_err, ke, ke_err, L, kb, notes, h
     cut = (lambda a: None if a is None else np.asarray(a)[kept])  # noqa: E731
     return LatticeTarget(T[kept], kl[kept], cut(kl_err), cut(meas_err), cut(ke), cut(ke_err), cut(L), kept,
                          tuple(notes), cut(kb))
+
+
+@dataclass(frozen=True)
+class ElectronicOptions:
+    """What a dataset allows for the electronic part (for menus and messages).
+
+    Attributes
+    ----------
+    available : bool
+        True when the data are a total conductivity with a resistivity column.
+    lorenz_choices : tuple of str
+        The Lorenz choices the data support (code keys of ``LORENZ_LABELS``);
+        empty when ``available`` is False.
+    message : str
+        One plain sentence saying what can be done and why.
+    """
+
+    available: bool
+    lorenz_choices: tuple
+    message: str
+
+
+def electronic_options(dataset) -> ElectronicOptions:
+    """Whether the electronic part can be split off ``dataset`` (a Dataset or None) and with which L."""
+    if dataset is None:
+        return ElectronicOptions(False, (), "No data loaded.")
+    if not isinstance(dataset, Dataset):
+        raise ParameterError(f"dataset must be a kinetic.data.Dataset or None, got {type(dataset).__name__}")
+    if dataset.kind == "lattice":
+        return ElectronicOptions(False, (), "The data are already lattice conductivity; nothing to split off.")
+    if dataset.resistivity is None:
+        return ElectronicOptions(False, (), "The data have no resistivity column, so the electronic part cannot "
+                                            "be split off; the model is compared with the total.")
+    if dataset.seebeck is None:
+        return ElectronicOptions(True, ("auto", "sommerfeld"), "Resistivity measured: the electronic part can be "
+                                 "split off (no Seebeck column: only the Sommerfeld value).")
+    return ElectronicOptions(True, ("auto", "sommerfeld", "spb", "kim"),
+                             "Resistivity measured: the electronic part can be split off.")

@@ -13,7 +13,7 @@ from ..errors import ParameterError
 from ..parameters import Parameter
 from ._common import _END_SLACK, _check_finite, _check_positive, _frozen, _kelvin, _lorenz_spec, _si
 
-__all__ = ["ElectronicTerm", "BipolarTerm"]
+__all__ = ["ElectronicTerm", "BipolarTerm", "BIPOLAR_FORMS"]
 
 
 @dataclass(frozen=True, eq=False)
@@ -182,6 +182,9 @@ _FORMS = {
     },
 }
 
+#: the bipolar forms :class:`BipolarTerm` knows
+BIPOLAR_FORMS = tuple(_FORMS)
+
 #: units in which pint quantities are converted (the prefactor's depends on the exponent p)
 _PINT_UNITS = {"band_gap": "eV", "exponent": "dimensionless", "sigma_n": "S/m", "sigma_p": "S/m",
                "seebeck_n": "V/K", "seebeck_p": "V/K", "prefactor": None}
@@ -245,6 +248,15 @@ class BipolarTerm:
                 p = replace(p, unit=f"W m^-1 K^-{1.0 + self.values['exponent']:g}")
             out[f"bipolar.{k}"] = p
         return out
+
+    @property
+    def formula(self) -> str:
+        """The form in plain text, for labels."""
+        if self.form == "activated":
+            p = self.values["exponent"]
+            power = "T" if p == 1.0 else f"T^{p:g}"
+            return f"C {power} exp(\u2212E_g / 2k_BT)"
+        return "\u03c3_n \u03c3_p / (\u03c3_n + \u03c3_p) (S_p \u2212 S_n)\u00b2 T"
 
     @property
     def params(self) -> dict:
