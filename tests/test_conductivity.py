@@ -354,3 +354,11 @@ def test_bipolar_formula_words():
     assert BipolarTerm.activated().formula.startswith("C T exp(")
     assert "T^2" in BipolarTerm.activated(exponent=2.0).formula
     assert "S_p" in BipolarTerm.two_band(1e4, 1e4, -1e-4, 1e-4).formula
+
+
+def test_callable_with_a_valid_range():
+    term = ElectronicTerm(lambda T: 1e-8 * T, temperature=[50.0, 400.0], lorenz="sommerfeld")
+    assert term.temperature_range == (50.0, 400.0)
+    assert float(term.kappa(200.0)) == pytest.approx(L0 / 1e-8, rel=1e-13)   # L0 T / (1e-8 T)
+    with pytest.raises(ParameterError, match="50-400 K"):
+        term.kappa(500.0)

@@ -28,7 +28,7 @@ class ElectronicTerm:
         Pint quantities are converted.
     temperature : array, keyword
         The grid [K] of an array ``resistivity`` (and ``seebeck``); any order,
-        no repeats. Not used with a callable.
+        no repeats. With a callable, optional: the range where it is valid.
     seebeck : array or callable, optional, keyword
         S [V/K], either sign, on the same grid or as a function of T.
     lorenz : str or float, keyword
@@ -102,10 +102,10 @@ class ElectronicTerm:
 
     @property
     def temperature_range(self) -> tuple[float, float] | None:
-        """(lowest, highest) temperature [K] of an array grid; None for a callable."""
-        if callable(self.resistivity) or self.temperature is None:
+        """(lowest, highest) temperature [K] where the term is defined; None for a callable without one."""
+        if self.temperature is None:
             return None
-        return float(self.temperature[0]), float(self.temperature[-1])
+        return float(np.min(self.temperature)), float(np.max(self.temperature))
 
     @property
     def method(self) -> str:
@@ -122,18 +122,20 @@ class ElectronicTerm:
         return (T >= rng[0] * (1 - _END_SLACK)) & (T <= rng[1] * (1 + _END_SLACK))
 
     def _inputs(self, T: np.ndarray):
+        rng = self.temperature_range
+        if rng is not None:
+            out = ~self.inside(T)
+            if np.any(out):
+                raise ParameterError(f"temperature {float(T[out].flat[0]):g} K is outside the measured "
+                                     f"resistivity range {rng[0]:g}-{rng[1]:g} K; the electronic part is not "
+                                     "extrapolated")
+            T = np.clip(T, *rng)
         if callable(self.resistivity):
             rho = np.broadcast_to(_si(self.resistivity(T), "ohm*m", "resistivity(T)"), T.shape)
             _check_positive("resistivity(T)", rho, "Ohm m")
-            return rho, self._seebeck_at(T)
-        lo, hi = self.temperature_range
-        out = ~self.inside(T)
-        if np.any(out):
-            raise ParameterError(f"temperature {float(T[out].flat[0]):g} K is outside the measured "
-                                 f"resistivity range {lo:g}-{hi:g} K; the electronic part is not extrapolated")
-        Tc = np.clip(T, lo, hi)
-        rho = np.interp(Tc, self.temperature, self.resistivity)
-        return rho, self._seebeck_at(Tc)
+        else:
+            rho = np.interp(T, self.temperature, self.resistivity)
+        return rho, self._seebeck_at(T)
 
     def _seebeck_at(self, T: np.ndarray):
         S = self.seebeck
