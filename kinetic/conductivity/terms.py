@@ -87,7 +87,8 @@ class ElectronicTerm:
             if S is not None and not callable(S):
                 raise ParameterError("seebeck must be a callable when resistivity is one")
         set_(self, "seebeck", S)
-        _lorenz_spec(self.lorenz, S is not None)  # validate now, not at the first plot
+        _, given = _lorenz_spec(self.lorenz, S is not None)  # validate now, not at the first plot
+        set_(self, "lorenz", given if given is not None else self.lorenz.strip().lower())
         scattering_exponent(self.scattering)
 
     @classmethod
