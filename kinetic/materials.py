@@ -5,8 +5,11 @@ where every number carries its published source (``material.sources`` keeps
 them). ``names()`` lists the presets. Users define their own with
 ``Material(...)``.
 
-Branches. One averaged branch uses the Debye-average sound velocity and the
-material's Debye temperature (Callaway's formulation). Split branches use the
+Branches. One averaged branch uses the Debye-average sound velocity v_D and the
+Debye temperature of the atom density, hbar v_D q_D / kB (Callaway's
+formulation; it equals the tabulated theta_D where the preset's numbers agree,
+e.g. 645.6 K against 645 K for Si, and keeps exactly 3 modes per atom where they
+do not). Split branches use the
 longitudinal and transverse velocities, each with a Debye cutoff at the same
 Debye-sphere radius q_D = (6 pi^2 n)^(1/3) (n atoms per volume), so each
 branch holds its own share of modes: theta_b = hbar v_b q_D / kB. This is
@@ -164,7 +167,10 @@ class Material:
             return [Branch.from_zone_edge(self.zone_edge_longitudinal, q, 1, name="L"),
                     Branch.from_zone_edge(self.zone_edge_transverse, q, 2, name="T")]
         if not split:
-            return [Branch(self.velocity_debye, self.debye_temperature, 3, dispersion=dispersion, name="avg")]
+            # the Debye sphere of the atom density (3 modes per atom exactly): theta from v_D and q_D,
+            # which equals the table theta_D where the preset's numbers agree (Si: 645.6 vs 645 K)
+            theta = hbar * self.velocity_debye * self.q_debye / kB
+            return [Branch(self.velocity_debye, theta, 3, dispersion=dispersion, name="avg")]
         if not self.has_split_velocities:
             raise ParameterError(
                 f"material {self.name!r} has no longitudinal/transverse velocities; "

@@ -104,8 +104,8 @@ GROUP_IV: Dict[str, Preset] = {
             zone_edge=True),
         "model_avg": model_field(
             "avg", "debye",
-            {"boundary": {"length": 3.159e-4}, "point_defect": {"gamma": 1.997e-4},
-             "umklapp": {"gruneisen": 1.8655, "b": 2.9256},
+            {"boundary": {"length": 3.156e-4}, "point_defect": {"gamma": 1.997e-4},
+             "umklapp": {"gruneisen": 1.8668, "b": 2.9266},
              "normal": {"B": 1e-25, "omega_power": 2.0, "temperature_power": 3.0}},
             _GS1964 + ", 50-1000 K (reference/si_ge_kappa.csv)",
             "computed: the same fit as 'model' with one averaged Debye branch (velocity_debye, "
@@ -202,7 +202,7 @@ GROUP_IV: Dict[str, Preset] = {
         "model_avg": model_field(
             "avg", "debye",
             {"boundary": {"length": 3.0e-3}, "point_defect": {"gamma": 5.867e-4},
-             "umklapp": {"gruneisen": 1.8705, "b": 3.2581},
+             "umklapp": {"gruneisen": 1.8606, "b": 3.2539},
              "normal": {"B": 1e-25, "omega_power": 2.0, "temperature_power": 3.0}},
             "Ho, Powell & Liley, J. Phys. Chem. Ref. Data 1, 279 (1972), 100-600 K (values from memory)",
             "computed: the same fit as 'model' with one averaged Debye branch (velocity_debye, "
@@ -300,8 +300,8 @@ GROUP_IV: Dict[str, Preset] = {
             zone_edge=True),
         "model_avg": model_field(
             "avg", "debye",
-            {"boundary": {"length": 3.37e-3}, "point_defect": {"gamma": 7.319e-5},
-             "umklapp": {"gruneisen": 1.4492, "b": 4.0},
+            {"boundary": {"length": 3.367e-3}, "point_defect": {"gamma": 7.319e-5},
+             "umklapp": {"gruneisen": 1.4599, "b": 4.0},
              "normal": {"B": 1e-25, "omega_power": 2.0, "temperature_power": 3.0}},
             "Inyushkin et al., Phys. Rev. B 97, 144305 (2018), 63 and 298 K (reference/diamond_kappa.csv)",
             "computed: the same fit as 'model' with one averaged Debye branch (velocity_debye, "
