@@ -1,0 +1,59 @@
+"""Isotope effects of the calibrated group-IV models (numbers and sources in reference/isotope_effects.csv).
+
+The enriched sample is the natural one's default model with only the point-defect Gamma changed
+(same boundary, same anharmonic terms), as in the published comparisons of like-sized crystals.
+"""
+import numpy as np
+import pytest
+
+from kinetic import defaults
+
+T_LOW = np.arange(5.0, 120.0, 0.5)
+
+
+def _with_gamma(model, gamma):
+    pd = model.mechanism("point_defect").with_values(gamma=gamma)
+    return model.with_mechanism(pd)
+
+
+def test_silicon_28_at_room_temperature():
+    # Inyushkin et al. (2004): +10 +- 2 % at 300 K for 99.983 % 28Si (Gamma 3.2e-7, computed).
+    # The normal-process prefactor of the group-IV presets was chosen in a coarse scan with this
+    # number in view, so this is a consistency check; tolerance = the published +-2 %.
+    nat = defaults.default_model("Si")
+    enr = _with_gamma(nat, 3.2e-7)
+    assert float(enr.kappa(300.0) / nat.kappa(300.0)) == pytest.approx(1.10, abs=0.02)
+
+
+def test_silicon_28_at_the_peak():
+    # Inyushkin et al. (2004): the peak rises about 7.5x. The peak also depends on each sample's
+    # boundary length, which the model takes equal (the natural crystal's); we ask for the published
+    # direction and a size within a factor 1.5 (model: ~5.2x).
+    nat = defaults.default_model("Si")
+    enr = _with_gamma(nat, 3.2e-7)
+    ratio = enr.kappa(T_LOW).max() / nat.kappa(T_LOW).max()
+    assert 7.5 / 1.5 < ratio < 7.5 * 1.5
+
+
+def test_diamond_12c_at_room_temperature():
+    # Published: +50 % (Wei et al., PRL 70, 3764, 1993, via Wikipedia, checked) and ~45 % (Inyushkin
+    # et al., PRB 97, 144305, 2018, model in the abstract). The Callaway model with one omega^2 T^3
+    # normal term gives ~+25 %: the right direction, about half the size. Asserted: at least +15 %
+    # and no more than the published +50 % plus its scatter; the shortfall is reported, not hidden.
+    nat = defaults.default_model("C")
+    enr = _with_gamma(nat, 4.86e-6)
+    ratio = float(enr.kappa(300.0) / nat.kappa(300.0))
+    assert 1.15 < ratio < 1.6
+
+
+def test_germanium_70_against_70_76_at_the_peak():
+    # Asen-Palmer et al. (DPG 1997 abstract, checked; PRB 56, 9431, 1997): the maxima of 70Ge
+    # (Gamma ~1e-7) and 70Ge0.52 76Ge0.48 (Gamma 1.6e-3) differ 14x. Same boundary for both; 30 %
+    # covers the unknown sample sizes (model: ~13x).
+    nat = defaults.default_model("Ge")
+    pure = _with_gamma(nat, 1e-7)
+    mixed = _with_gamma(nat, 1.6e-3)
+    ratio = pure.kappa(T_LOW).max() / mixed.kappa(T_LOW).max()
+    assert ratio == pytest.approx(14.0, rel=0.30)
+    # and in the published direction at room temperature: the enriched crystal conducts better
+    assert float(pure.kappa(300.0)) > float(nat.kappa(300.0)) > float(mixed.kappa(300.0))
