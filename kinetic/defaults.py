@@ -26,8 +26,8 @@ Examples
 """
 from __future__ import annotations
 
+from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field
-from typing import Mapping, Sequence
 
 import numpy as np
 from scipy.constants import atomic_mass as _U
@@ -38,8 +38,15 @@ from .lattice import LatticeModel
 from .presets import PRESETS
 from .scattering import Boundary, Normal, PointDefect, Umklapp
 
-__all__ = ["Calibration", "default_model", "default_free", "calibration", "scope_notes",
-           "calibrated_names", "MECHANISM_ORDER"]
+__all__ = [
+    "MECHANISM_ORDER",
+    "Calibration",
+    "calibrated_names",
+    "calibration",
+    "default_free",
+    "default_model",
+    "scope_notes",
+]
 
 #: Order of the mechanisms in a default model.
 MECHANISM_ORDER = ("boundary", "point_defect", "umklapp", "normal")
@@ -292,10 +299,7 @@ def scope_notes(material_or_name, *, temperature=None, boundary_length=None,
     list of str
         Empty when the prediction lies inside the calibrated range.
     """
-    try:
-        key, mat = _preset(material_or_name)
-    except ParameterError:
-        raise
+    key, mat = _preset(material_or_name)
     name = key or mat.name
     cal = calibration(mat if key is None else key)
     notes = []

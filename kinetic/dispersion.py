@@ -28,7 +28,8 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 import numpy as np
-from scipy.constants import hbar, k as kB
+from scipy.constants import hbar
+from scipy.constants import k as kB
 
 from ._validate import positive
 from .errors import ParameterError
@@ -93,7 +94,7 @@ class Branch:
 
     @classmethod
     def from_zone_edge(cls, frequency: float, q_debye: float, polarizations: int = 1, *,
-                       name: str = "avg") -> "Branch":
+                       name: str = "avg") -> Branch:
         """A sine branch whose zone-edge frequency is ``frequency`` [Hz] at q = ``q_debye`` [m^-1].
 
         The slope at q -> 0 is then v0 = pi omega_edge / (2 q_D) and the Debye
@@ -181,5 +182,5 @@ class Branch:
         }
 
     @classmethod
-    def from_dict(cls, d: dict) -> "Branch":
+    def from_dict(cls, d: dict) -> Branch:
         return cls(**d)

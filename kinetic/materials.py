@@ -27,11 +27,12 @@ range, rms) or None; :mod:`kinetic.defaults` builds the calibrated model.
 """
 from __future__ import annotations
 
+from collections.abc import Mapping
 from dataclasses import dataclass, field, replace
-from typing import Mapping
 
 import numpy as np
-from scipy.constants import hbar, k as kB
+from scipy.constants import hbar
+from scipy.constants import k as kB
 
 from ._validate import positive
 from .dispersion import Branch
@@ -183,7 +184,7 @@ class Material:
             Branch(self.velocity_transverse, thT, 2, dispersion=dispersion, name="T"),
         ]
 
-    def with_values(self, **kw) -> "Material":
+    def with_values(self, **kw) -> Material:
         return replace(self, **kw)
 
     def to_dict(self) -> dict:
@@ -198,7 +199,7 @@ class Material:
         return d
 
     @classmethod
-    def from_dict(cls, d: Mapping) -> "Material":
+    def from_dict(cls, d: Mapping) -> Material:
         return cls(**dict(d))
 
 

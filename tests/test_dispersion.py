@@ -6,7 +6,8 @@ T >> theta, and Debye's low-temperature law C = (12 pi^4 / 5) n kB (T / theta)^3
 """
 import numpy as np
 import pytest
-from scipy.constants import hbar, k as kB
+from scipy.constants import hbar
+from scipy.constants import k as kB
 from scipy.integrate import quad
 
 from kinetic import materials
@@ -17,11 +18,11 @@ from kinetic.scattering import Boundary
 
 
 def _forms(mat):
-    forms = [dict(split=False, dispersion="debye"), dict(split=False, dispersion="sine")]
+    forms = [{"split": False, "dispersion": "debye"}, {"split": False, "dispersion": "sine"}]
     if mat.has_split_velocities:
-        forms += [dict(split=True, dispersion="debye"), dict(split=True, dispersion="sine")]
+        forms += [{"split": True, "dispersion": "debye"}, {"split": True, "dispersion": "sine"}]
     if mat.has_zone_edges:
-        forms.append(dict(split=True, dispersion="sine", zone_edge=True))
+        forms.append({"split": True, "dispersion": "sine", "zone_edge": True})
     return forms
 
 
@@ -91,7 +92,7 @@ def test_sine_heat_capacity_matches_adaptive_quadrature():
     b = Branch.from_zone_edge(4.0e12, 1.436e10, 2, name="T")
     model = LatticeModel([b], [Boundary(1e-3)])
     for T in (10.0, 77.0, 300.0):
-        def f(q):
+        def f(q, T=T):
             x = hbar * b.omega_of_u(q / b.q_max) / (kB * T)
             return x * x * np.exp(-x) / (1.0 - np.exp(-x)) ** 2 * q * q if x > 0 else q * q
         val, _ = quad(f, 0.0, b.q_max, epsabs=0, epsrel=1e-10, limit=200)

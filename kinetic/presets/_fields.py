@@ -45,10 +45,10 @@ pellet its reference k(T) was measured on)::
 A preset without these two fields is uncalibrated: ``kinetic.defaults``
 refuses to make up its coefficients and says which number is missing.
 """
-from typing import Any, Dict
+from typing import Any
 
-Field = Dict[str, Any]
-Preset = Dict[str, Field]
+Field = dict[str, Any]
+Preset = dict[str, Field]
 
 #: Mechanism kinds a preset model may list, with the parameters each takes.
 MODEL_MECHANISMS = {
@@ -59,7 +59,7 @@ MODEL_MECHANISMS = {
 }
 
 
-def model_field(branches: str, dispersion: str, mechanisms: Dict[str, Dict[str, Any]], source: str,
+def model_field(branches: str, dispersion: str, mechanisms: dict[str, dict[str, Any]], source: str,
                 how: str, **extra: Any) -> Field:
     """A preset's ``"model"`` field (see the module docstring); checked on creation."""
     value = {"branches": branches, "dispersion": dispersion, "mechanisms": mechanisms, **extra}
@@ -75,7 +75,7 @@ def calibration_field(table: str, t_min: float, t_max: float, rms: float, n_poin
             "unit": "K; rms as a fraction", "source": source, "how": how}
 
 
-def check_model(value: Dict[str, Any]) -> None:
+def check_model(value: dict[str, Any]) -> None:
     """Raise ValueError when a model description does not follow the schema."""
     if value.get("branches") not in ("avg", "split"):
         raise ValueError(f"model branches must be 'avg' or 'split', got {value.get('branches')!r}")
