@@ -2,27 +2,34 @@
 
 A :class:`Branch` stands for one, two or three acoustic polarisations sharing a
 dispersion relation omega(q). It is described by its sound velocity ``v0`` (the
-slope at q -> 0) and its Debye temperature ``theta`` (the maximum phonon
-frequency, ``omega_max = kB theta / hbar``). The engine integrates over the
-reduced wavevector u = q / q_max in (0, 1], so any monotonic dispersion fits the
-same quadrature.
+slope at q -> 0) and its Debye temperature ``theta``, which fixes the radius of
+its Debye sphere, q_max = kB theta / (hbar v0). Every branch therefore holds
+exactly ``polarizations`` modes per atom when theta = hbar v0 (6 pi^2 n)^(1/3) / kB
+(Debye's counting, n atoms per volume), whatever its dispersion, and its heat
+capacity tends to Dulong-Petit's ``polarizations`` x kB per atom at high T. The
+engine integrates over the reduced wavevector u = q / q_max in (0, 1].
 
-* ``"debye"``: omega = v0 q, q_max = omega_max / v0; group velocity v0.
-* ``"sine"``: omega = omega_max sin(pi u / 2), q_max = pi omega_max / (2 v0)
-  (so the slope at q -> 0 is v0); group velocity v0 cos(pi u / 2) falls to zero
-  at the zone edge. Born & von Karman's one-dimensional chain, used for
-  phonon transport with a Debye-sphere zone by e.g. Chung, McGaughey & Kaviany,
-  J. Heat Transfer 126, 376 (2004).
+* ``"debye"``: omega = v0 q; omega_max = kB theta / hbar; group velocity v0.
+* ``"sine"``: omega = omega_max sin(pi u / 2) with omega_max = (2 / pi) kB theta / hbar,
+  so that the slope at q -> 0 is v0 = omega_max pi / (2 q_max); group velocity
+  v0 cos(pi u / 2) falls to zero at the zone edge. Born & von Karman's
+  one-dimensional chain on a Debye-sphere zone, as used for phonon transport by
+  e.g. Chung, McGaughey & Kaviany, J. Heat Transfer 126, 376 (2004).
 
-With ``theta = hbar v0 (6 pi^2 n)^(1/3) / kB`` a Debye branch holds exactly
-``polarizations`` modes per atom of density ``n`` (Debye's counting).
+A sine branch has two numbers to match (slope and zone-edge frequency) but only
+one free (omega_max, once q_max = q_D is fixed by the mode count).
+:meth:`Branch.from_zone_edge` matches the ZONE-EDGE frequency of a measured
+dispersion curve (then the slope v0 = pi omega_edge / (2 q_D) is below the sound
+velocity for flat transverse branches); the plain constructor matches the sound
+velocity (then omega_max = 2 v0 q_D / pi).
 """
 from __future__ import annotations
 
 from dataclasses import dataclass
 
 import numpy as np
-from scipy.constants import hbar, k as kB
+from scipy.constants import hbar
+from scipy.constants import k as kB
 
 from ._validate import positive
 from .errors import ParameterError
@@ -39,7 +46,9 @@ class Branch:
     velocity : float
         Sound velocity v0, the slope d omega / dq at q -> 0 [m s^-1].
     debye_temperature : float
-        Branch Debye temperature theta; omega_max = kB theta / hbar [K].
+        Branch Debye temperature theta, which fixes the Debye-sphere radius
+        q_max = kB theta / (hbar v0); omega_max = kB theta / hbar for a Debye
+        branch, (2 / pi) kB theta / hbar for a sine branch [K].
     polarizations : int
         Number of polarisations this branch stands for (1, 2 or 3).
     dispersion : {"debye", "sine"}
@@ -56,8 +65,13 @@ class Branch:
     Examples
     --------
     >>> b = Branch(5000.0, 400.0)
-    >>> round(b.omega_max / 1e13, 4)
-    5.2379
+    >>> round(b.omega_max / 1e13, 4)   # kB * 400 K / hbar
+    5.2368
+    >>> s = Branch(5000.0, 400.0, dispersion="sine")
+    >>> s.q_max == b.q_max             # same Debye sphere, same number of modes
+    True
+    >>> round(s.omega_max / b.omega_max, 4)   # 2 / pi
+    0.6366
     """
 
     velocity: float
@@ -78,17 +92,40 @@ class Branch:
                 f"dispersion must be one of {', '.join(DISPERSIONS)}, got {self.dispersion!r}"
             )
 
+    @classmethod
+    def from_zone_edge(cls, frequency: float, q_debye: float, polarizations: int = 1, *,
+                       name: str = "avg") -> Branch:
+        """A sine branch whose zone-edge frequency is ``frequency`` [Hz] at q = ``q_debye`` [m^-1].
+
+        The slope at q -> 0 is then v0 = pi omega_edge / (2 q_D) and the Debye
+        temperature hbar v0 q_D / kB = (pi / 2) h f / kB; the branch holds
+        ``polarizations`` modes per atom when ``q_debye`` = (6 pi^2 n)^(1/3).
+
+        Examples
+        --------
+        >>> b = Branch.from_zone_edge(4.0e12, 1.436e10, 2, name="T")
+        >>> round(b.omega_max / (2 * np.pi * 4.0e12), 12)
+        1.0
+        >>> round(b.q_max / 1.436e10, 12)
+        1.0
+        """
+        omega_e = 2.0 * np.pi * positive("zone-edge frequency", frequency, unit="Hz")
+        q = positive("q_debye", q_debye, unit="m^-1")
+        v0 = np.pi * omega_e / (2.0 * q)
+        return cls(float(v0), float(hbar * v0 * q / kB), polarizations, dispersion="sine", name=name)
+
     @property
     def omega_max(self) -> float:
-        """Largest angular frequency of the branch [rad s^-1]."""
-        return kB * self.debye_temperature / hbar
+        """Largest angular frequency of the branch (at the zone edge) [rad s^-1]."""
+        w_debye = kB * self.debye_temperature / hbar
+        if self.dispersion == "sine":
+            return (2.0 / np.pi) * w_debye
+        return w_debye
 
     @property
     def q_max(self) -> float:
-        """Zone-edge wavevector of the branch's Debye sphere [m^-1]."""
-        if self.dispersion == "sine":
-            return np.pi * self.omega_max / (2.0 * self.velocity)
-        return self.omega_max / self.velocity
+        """Radius of the branch's Debye sphere, kB theta / (hbar v0) [m^-1]."""
+        return kB * self.debye_temperature / (hbar * self.velocity)
 
     # --- functions of the reduced wavevector u = q / q_max in (0, 1] -------------
     def omega_of_u(self, u):
@@ -126,6 +163,11 @@ class Branch:
         return np.where(q > 0, w / np.where(q > 0, q, 1.0), self.velocity)
 
     @property
+    def zone_edge_frequency(self) -> float:
+        """Frequency at the zone edge, omega_max / (2 pi) [Hz]."""
+        return self.omega_max / (2.0 * np.pi)
+
+    @property
     def mode_density(self) -> float:
         """Number of modes per unit volume held by the branch [m^-3]."""
         return self.polarizations * self.q_max**3 / (6.0 * np.pi**2)
@@ -140,5 +182,5 @@ class Branch:
         }
 
     @classmethod
-    def from_dict(cls, d: dict) -> "Branch":
+    def from_dict(cls, d: dict) -> Branch:
         return cls(**d)

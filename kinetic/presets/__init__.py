@@ -37,7 +37,16 @@ Conventions (see reference/README.md for the full caveats):
   about 300 K.  It is not the fitted gamma of Slack's formula or of the
   Morelli-Heremans-Slack Callaway model, which are larger (about 1 for the
   diamond-structure solids); those, where recalled, are in
-  ``gruneisen_slack`` (from memory).
+  ``gruneisen_slack`` (from memory).  No default path uses either:
+  ``kinetic.materials.get`` exposes gamma_th only as
+  ``Material.gruneisen_thermodynamic``, and ``Material.gruneisen`` is the
+  Umklapp gamma of the preset's calibrated ``model`` (None without one).
+* ``model`` / ``model_avg`` / ``calibration``: the calibrated model of the
+  preset's reference sample and where it was checked; the schema is in
+  :mod:`kinetic.presets._fields` and :mod:`kinetic.defaults` builds the model.
+* ``zone_edge_longitudinal`` / ``zone_edge_transverse``: zone-edge frequencies
+  [Hz] of the acoustic branches from measured dispersion curves (mean of the
+  X and L points), used by sine branches with ``zone_edge=True``.
 * ``debye_temperature`` says its kind in the note (low-temperature
   calorimetric, elastic, X-ray ...).  ``debye_temperature_acoustic`` is
   Slack's theta_a (acoustic-branch Debye temperature), from memory only.
@@ -45,16 +54,15 @@ Conventions (see reference/README.md for the full caveats):
 References are cited in full in each ``source`` string.  Nothing here is
 invented; a number without a source is a gap (None).
 """
-from typing import Dict
 
 from ._fields import Field, Preset  # noqa: F401
 from .compounds import COMPOUNDS
 from .group_iv import GROUP_IV
 
-PRESETS: Dict[str, Preset] = {**GROUP_IV, **COMPOUNDS}
+PRESETS: dict[str, Preset] = {**GROUP_IV, **COMPOUNDS}
 
 #: Other names accepted for a preset key (lower case) -> key in PRESETS.
-ALIASES: Dict[str, str] = {"diamond": "C", "c": "C", "si": "Si", "ge": "Ge",
+ALIASES: dict[str, str] = {"diamond": "C", "c": "C", "si": "Si", "ge": "Ge",
                            "gaas": "GaAs", "pbte": "PbTe", "bi2te3": "Bi2Te3",
                            "mg2si": "Mg2Si"}
 
