@@ -114,8 +114,8 @@ def rows_text(rows, level: float = 0.95) -> list:
         pct = f"{100 * level:g}%"
         out.append(f"{'parameter'.ljust(w)}  {'value':>11}  {'stderr':>10}  {pct} interval".rstrip())
         for r in params:
-            iv = r.interval_text if r.interval is not None else "not determined"
-            line = f"{r.label.ljust(w)}  {r.value_text:>11}  {r.error_text or '-':>10}  {iv} {r.unit}".rstrip()
+            iv = f"{r.interval_text} {r.unit}" if r.interval is not None else "not determined"
+            line = f"{r.label.ljust(w)}  {r.value_text:>11}  {r.error_text or '-':>10}  {iv}".rstrip()
             if r.note:
                 line += f"   ({r.note})"
             out.append(line)

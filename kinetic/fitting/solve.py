@@ -25,6 +25,10 @@ __all__ = ["fit", "fit_joint", "latin_hypercube", "WEIGHTS"]
 
 #: Fraction of a parameter's fitted range within which it counts as "at a bound".
 AT_BOUND = 1e-3
+#: Estimated relative scatter above which a fit is flagged as not describing the
+#: data: thermal-conductivity measurements scatter by 5-10 % (Glassbrenner &
+#: Slack 1964 state +-5 %; common practice), so 30 % means the model misses.
+SCATTER_LIMIT = 0.30
 #: Choices of ``weights=``.
 WEIGHTS = ("auto", "errors", "relative")
 #: Tolerances of scipy.optimize.least_squares for every start and refit.
@@ -132,9 +136,20 @@ def _run_starts(prob: Problem, x0, n_starts, seed, progress, should_stop, max_nf
     return best, costs, [prob.values(p) for p in pts[:len(costs)]], cancelled
 
 
-def _goodness(chi2, dof, estimate, flags):
-    """Flag (in plain words) a fit with stated errors whose reduced chi-squared is far from 1."""
-    if estimate or dof < 1 or not math.isfinite(chi2):
+def _goodness(chi2, dof, estimate, scatter, rms, flags):
+    """Flag in plain words a fit the model does not describe.
+
+    With stated errors: a reduced chi-squared above GOODNESS_LIMIT (with the
+    chi-squared test's p-value). With the scatter estimated (chi2 = dof by
+    construction): an estimated scatter above SCATTER_LIMIT.
+    """
+    if estimate:
+        if scatter > SCATTER_LIMIT:
+            flags.poor_fit = (f"the model misses the data by {100 * rms:.3g}% rms (estimated scatter s0 = "
+                              f"{100 * scatter:.3g}%, far above a typical measurement error of 5-10%): it does not "
+                              "describe these data; check the units, the material and the mechanisms")
+        return
+    if dof < 1 or not math.isfinite(chi2):
         return
     red = chi2 / dof
     if red > GOODNESS_LIMIT:
@@ -195,14 +210,17 @@ def _analyse(prob: Problem, x, estimate, fit_options, costs, start_points, best_
         for j in range(i + 1, p):
             if np.isfinite(corr[i, j]) and abs(corr[i, j]) > CORRELATION_LIMIT:
                 flags.correlated.append((names[i], names[j], float(corr[i, j])))
-    _goodness(chi2, dof, estimate, flags)
+    raw_all = prob.raw_residuals(x)
+    finite = raw_all[np.isfinite(raw_all)]
+    _goodness(chi2, dof, estimate, prob.s0, float(np.sqrt(np.mean(finite ** 2))) if finite.size else math.inf,
+              flags)
     if len(costs) > 1:
         best_cost = min(costs)
         agree = sum(1 for c in costs if c <= best_cost * (1 + 1e-6) + 1e-12)
         flags.notes.append(f"{agree} of {len(costs)} starts reached the best cost")
     # likelihood in ln kappa
     k_eff = p + (1 if estimate else 0)
-    raw = prob.raw_residuals(x)
+    raw = raw_all
     lnL = _log_likelihood(raw, np.concatenate([b.e_rel for b in prob.blocks]), prob.s0, estimate)
     aic = -2 * lnL + 2 * k_eff
     aicc = aic + (2 * k_eff * (k_eff + 1) / (n - k_eff - 1) if n - k_eff - 1 > 0 else math.inf)
