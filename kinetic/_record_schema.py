@@ -127,6 +127,47 @@ def _close(a: float, b: float) -> bool:
     return a == b or math.isclose(a, b, rel_tol=REL, abs_tol=0.0)
 
 
+def _model_types(R: _Reader, d: dict, w: str) -> None:
+    """JSON types of a stored model: numbers are numbers (never strings), flags are booleans."""
+    br, wb = R.key(d, "branches", w)
+    if not isinstance(br, list) or not br:
+        R.fail(wb, "must be a non-empty list of branches")
+    for i, b in enumerate(br):
+        wi = f"{wb}[{i}]"
+        R.obj(b, wi)
+        for k, x in b.items():
+            if k in ("name", "dispersion"):
+                R.string(x, f"{wi}.{k}")
+            elif k == "polarizations":
+                R.integer(x, f"{wi}.{k}", lo=1)
+            else:
+                R.number(x, f"{wi}.{k}", lo=0.0, strict_lo=True)
+    sc, wsc = R.key(d, "scattering", w)
+    if not isinstance(sc, list):
+        R.fail(wsc, f"must be a list of mechanisms, got {_kind(sc)}")
+    for i, m in enumerate(sc):
+        wi = f"{wsc}[{i}]"
+        R.obj(m, wi)
+        R.string(*R.key(m, "kind", wi))
+        R.string(*R.key(m, "name", wi, optional=True, default=""))
+        vals, wv = R.key(m, "values", wi, optional=True, default={})
+        for k, x in R.obj(vals, wv).items():
+            if x is not None:
+                R.number(x, f"{wv}.{k}")
+        opts, wo = R.key(m, "options", wi, optional=True, default={})
+        for k, x in R.obj(opts, wo).items():
+            if isinstance(x, str) and x.strip() and x.strip().lstrip("+-").replace(".", "", 1).replace(
+                    "e", "", 1).replace("-", "", 1).isdigit():
+                R.fail(f"{wo}.{k}", f"must be a JSON number, not the string {x!r}")
+        at, wa = R.key(m, "applies_to", wi, optional=True)
+        if at is not None:
+            R.strings(at, wa)
+    if "normal_correction" in d:
+        R.boolean(d["normal_correction"], f"{w}.normal_correction")
+    if d.get("material") is not None:
+        R.string(d["material"], f"{w}.material")
+
+
 def _sample(R: _Reader, s, i: int):
     w = f"samples[{i}]"
     R.obj(s, w)
@@ -138,7 +179,7 @@ def _sample(R: _Reader, s, i: int):
     except Exception as exc:  # the loader's own one-line message, under the record's path
         R.fail(wd, f"is not a valid dataset ({str(exc).splitlines()[0] if str(exc) else type(exc).__name__})")
     v, wm = R.key(s, "model", w)
-    R.obj(v, wm)
+    _model_types(R, R.obj(v, wm), wm)
     try:
         model = LatticeModel.from_dict(v)
     except Exception as exc:
@@ -337,12 +378,12 @@ def read_record(d, name: str) -> dict:
     if dof != n_points - n_free:
         R.fail("fit.dof", f"must be n_points - n_free = {n_points - n_free}, got {dof}")
     chi2 = R.number(*R.key(fit, "chi2", "fit"), lo=0.0)
-    red = R.number(*R.key(fit, "reduced_chi2", "fit"), nan=True, lo=0.0)
-    if dof > 0 and not math.isclose(red, chi2 / dof, rel_tol=1e-6, abs_tol=1e-300):
-        R.fail("fit.reduced_chi2", f"must be chi2 / dof = {chi2 / dof!r}, got {red!r}")
     residuals = R.numbers(*R.key(fit, "residuals", "fit"), size=n_points)
     if not math.isclose(float(residuals @ residuals), chi2, rel_tol=1e-6, abs_tol=1e-12):
         R.fail("fit.chi2", "disagrees with the sum of squared fit.residuals")
+    red = R.number(*R.key(fit, "reduced_chi2", "fit"), nan=True, lo=0.0)
+    if dof > 0 and not math.isclose(red, chi2 / dof, rel_tol=1e-6, abs_tol=1e-300):
+        R.fail("fit.reduced_chi2", f"must be chi2 / dof = {chi2 / dof!r}, got {red!r}")
     starts = R.numbers(*R.key(fit, "starts", "fit"), lo=0.0, inf=True)
     flags = _flags(R, R.key(fit, "flags", "fit")[0], names)
     sig = [r[6] for r in rows]
