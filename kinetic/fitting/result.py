@@ -23,14 +23,15 @@ def scatter_meaning(result) -> str:
     if not result.scatter_estimated:
         return ("weights from the stated errors (no scatter s0 estimated; the covariance is not rescaled "
                 "by the reduced chi-squared)")
-    has_err = any(t.kappa_err is not None for t in result.targets)
-    if not has_err:
+    if all(t.kappa_err is None for t in result.targets):
         return (f"s0 = {100 * result.scatter:.3g}% is the 1-sigma relative error of every point, estimated "
                 f"from the scatter of the residuals (no errors were given; rms residual {100 * rms:.3g}%)")
+    known = ("the stated errors" if any(t.measured_err is not None for t in result.targets)
+             else "the errors of the subtracted electronic part")
     if result.scatter == 0.0:
-        return (f"s0 = 0: the stated errors already cover the scatter of the residuals (rms residual "
+        return (f"s0 = 0: {known} already cover the scatter of the residuals (rms residual "
                 f"{100 * rms:.3g}%), so no extra scatter was added")
-    return (f"s0 = {100 * result.scatter:.3g}% is the relative scatter added in quadrature to the stated errors "
+    return (f"s0 = {100 * result.scatter:.3g}% is the relative scatter added in quadrature to {known} "
             f"so that the reduced chi-squared is 1 (rms residual {100 * rms:.3g}%)")
 
 
