@@ -32,15 +32,16 @@ from pathlib import Path
 
 import numpy as np
 from scipy import integrate, optimize
-from scipy.constants import hbar, k as kB
+from scipy.constants import hbar
+from scipy.constants import k as kB
 
 ROOT = Path(__file__).resolve().parent.parent
 sys.path.insert(0, str(ROOT))
 
-from kinetic import Boundary, LatticeModel, PointDefect, Umklapp, materials  # noqa: E402
-from kinetic.data import Dataset  # noqa: E402
-from kinetic.disorder import isotope_gamma  # noqa: E402
-from kinetic.fitting import fit  # noqa: E402
+from kinetic import Boundary, LatticeModel, PointDefect, Umklapp, materials
+from kinetic.data import Dataset
+from kinetic.disorder import isotope_gamma
+from kinetic.fitting import fit
 
 FREE = ["boundary.length", "umklapp.gruneisen", "umklapp.b"]
 START = {"boundary.length": 5e-3, "umklapp.gruneisen": 1.0, "umklapp.b": 3.0}
@@ -86,7 +87,7 @@ def hand_written_kappa(model):
                 # quad's default absolute tolerance (1.5e-8) means what it says
                 r1 = v / L + A * w_per_x ** 4 + u_T * w_per_x ** 2
 
-                def f(x):
+                def f(x, w_per_x=w_per_x, v=v, A=A, u_T=u_T, r1=r1):
                     w = w_per_x * x
                     rate = (v / L + A * w ** 4 + u_T * w * w) / r1
                     ex = math.exp(-x)  # x^4 e^x / (e^x - 1)^2 written without overflow

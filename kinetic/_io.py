@@ -27,7 +27,7 @@ from pathlib import Path
 
 from .errors import KineticError
 
-__all__ = ["atomic_write", "AtomicWriteError", "TEMP_SUFFIX", "STALE_AFTER_S", "temp_files_of"]
+__all__ = ["STALE_AFTER_S", "TEMP_SUFFIX", "AtomicWriteError", "atomic_write", "temp_files_of"]
 
 #: Ending of every temporary file of :func:`atomic_write`.
 TEMP_SUFFIX = ".kinetic-tmp"

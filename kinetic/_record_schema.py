@@ -176,13 +176,13 @@ def _sample(R: _Reader, s, i: int):
     R.obj(v, wd)
     try:
         ds = Dataset.from_dict(v)
-    except Exception as exc:  # the loader's own one-line message, under the record's path
+    except Exception as exc:  # noqa: BLE001 -- any failure of a tampered dataset is one RecordError line
         R.fail(wd, f"is not a valid dataset ({str(exc).splitlines()[0] if str(exc) else type(exc).__name__})")
     v, wm = R.key(s, "model", w)
     _model_types(R, R.obj(v, wm), wm)
     try:
         model = LatticeModel.from_dict(v)
-    except Exception as exc:
+    except Exception as exc:  # noqa: BLE001 -- any failure of a tampered model is one RecordError line
         R.fail(wm, f"cannot be rebuilt ({str(exc).splitlines()[0] if str(exc) else type(exc).__name__})")
     path = R.string(*R.key(s, "data_path", w, optional=True), allow_none=True)
     sha = R.string(*R.key(s, "data_sha256", w, optional=True), allow_none=True)

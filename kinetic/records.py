@@ -64,8 +64,19 @@ from ._record_schema import SCHEMA, VERSION, read_record
 from .errors import ParameterError, RecordError
 from .fitting import FitResult
 
-__all__ = ["SCHEMA", "VERSION", "Record", "Provenance", "save_record", "load_record", "record_dict",
-           "record_from_dict", "record_json", "file_sha256", "atomic_write_text"]
+__all__ = [
+    "SCHEMA",
+    "VERSION",
+    "Provenance",
+    "Record",
+    "atomic_write_text",
+    "file_sha256",
+    "load_record",
+    "record_dict",
+    "record_from_dict",
+    "record_json",
+    "save_record",
+]
 
 
 

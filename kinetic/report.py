@@ -26,7 +26,7 @@ from .estimates import cahill_minimum_for
 from .fitting import check_level, predict_band, sample_index
 from .fitting.rows import format_number
 
-__all__ = ["report_figure", "summary_table", "FIGURE_FORMATS"]
+__all__ = ["FIGURE_FORMATS", "report_figure", "summary_table"]
 
 #: File extensions report_figure can write.
 FIGURE_FORMATS = ("png", "svg", "pdf")
@@ -82,7 +82,9 @@ def report_figure(result, path=None, *, material=None, level: float = 0.95, samp
     kinetic._io.AtomicWriteError
         The file cannot be written (one line; an earlier file is unchanged).
     """
-    from matplotlib.figure import Figure  # lazily: matplotlib is heavy and only reports need it
+    from matplotlib.figure import (
+        Figure,  # lazily: matplotlib is heavy and only reports need it
+    )
 
     if path is not None:
         ext = Path(path).suffix.lower().lstrip(".")

@@ -9,11 +9,31 @@ import numpy as np
 import pytest
 from scipy import stats
 
-from kinetic import Boundary, DataError, FitError, LatticeModel, ParameterError, PointDefect, Umklapp, materials
+from kinetic import (
+    Boundary,
+    DataError,
+    FitError,
+    LatticeModel,
+    ParameterError,
+    PointDefect,
+    Umklapp,
+    materials,
+)
 from kinetic.data import Dataset
 from kinetic.electronic import lattice_from_total
-from kinetic.fitting import (as_dataset, bootstrap, compare, default_free, default_model, fit, fit_joint,
-                             lattice_target, latin_hypercube, predict_band, profile_interval)
+from kinetic.fitting import (
+    as_dataset,
+    bootstrap,
+    compare,
+    default_free,
+    default_model,
+    fit,
+    fit_joint,
+    latin_hypercube,
+    lattice_target,
+    predict_band,
+    profile_interval,
+)
 
 HOST = materials.get("Mg2Si")  # host properties only; the samples are invented
 TRUE = {"boundary.length": 2e-6, "point_defect.gamma": 0.02, "umklapp.gruneisen": 1.8}

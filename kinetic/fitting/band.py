@@ -9,7 +9,7 @@ import numpy as np
 from .common import check_level, sample_index
 from .problem import JAC_STEP
 
-__all__ = ["Band", "predict_band", "band_parts", "log_gradient"]
+__all__ = ["Band", "band_parts", "log_gradient", "predict_band"]
 
 
 @dataclass(frozen=True)
@@ -133,7 +133,7 @@ def predict_band(result, temperature, level: float = 0.95, *, sample=0) -> Band:
     """
     level = check_level(level)
     i = sample_index(result, sample)
-    T, lk, sd, k = band_parts(result.models, result.free, result.covariance_fitted, result.values, i, temperature)
+    T, _, sd, k = band_parts(result.models, result.free, result.covariance_fitted, result.values, i, temperature)
     q = result.quantile(level)
     with np.errstate(over="ignore", invalid="ignore"):
         return Band(temperature=T, kappa=k, lower=k * np.exp(-q * sd), upper=k * np.exp(q * sd), sd_ln=sd,

@@ -2,15 +2,21 @@
 from __future__ import annotations
 
 import math
+from collections.abc import Callable
 from dataclasses import dataclass
-from typing import Callable
 
 import numpy as np
 from scipy import optimize
 
 from ..errors import FitError, ParameterError
 from .common import check_level
-from .problem import call_progress, check_callable, check_int, check_seed, stop_requested
+from .problem import (
+    call_progress,
+    check_callable,
+    check_int,
+    check_seed,
+    stop_requested,
+)
 from .result import FitResult
 from .uncertainty import need_problem
 

@@ -7,7 +7,7 @@ import numpy as np
 
 from ..errors import ParameterError
 
-__all__ = ["json_float", "json_matrix", "check_level", "sample_index"]
+__all__ = ["check_level", "json_float", "json_matrix", "sample_index"]
 
 
 def json_float(v):

@@ -2,8 +2,8 @@
 from __future__ import annotations
 
 import math
+from collections.abc import Mapping
 from dataclasses import dataclass
-from typing import Mapping
 
 from ..errors import ParameterError
 from .solve import fit

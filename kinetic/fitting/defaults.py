@@ -5,7 +5,7 @@ The calibrated default model of each material will live in
 """
 from __future__ import annotations
 
-from typing import Sequence
+from collections.abc import Sequence
 
 from .. import materials
 from ..disorder import material_gamma
@@ -13,7 +13,7 @@ from ..errors import ParameterError
 from ..lattice import LatticeModel
 from ..scattering import Boundary, Normal, PointDefect, Umklapp
 
-__all__ = ["DEFAULT_MECHANISMS", "default_model", "default_free"]
+__all__ = ["DEFAULT_MECHANISMS", "default_free", "default_model"]
 
 #: Mechanisms of :func:`default_model` when none are named.
 DEFAULT_MECHANISMS = ("boundary", "point_defect", "umklapp")

@@ -5,7 +5,7 @@ from dataclasses import dataclass, field
 
 from .common import json_float
 
-__all__ = ["FitFlags", "ParameterInterval", "CORRELATION_LIMIT", "GOODNESS_LIMIT"]
+__all__ = ["CORRELATION_LIMIT", "GOODNESS_LIMIT", "FitFlags", "ParameterInterval"]
 
 #: |r| above which a pair of parameters is flagged as strongly correlated.
 CORRELATION_LIMIT = 0.95
@@ -76,7 +76,7 @@ class FitFlags:
                 "notes": list(self.notes)}
 
     @classmethod
-    def from_dict(cls, d) -> "FitFlags":
+    def from_dict(cls, d) -> FitFlags:
         """Rebuild from :meth:`to_dict` (records check the types first)."""
         return cls(at_bound=[str(s) for s in d.get("at_bound", [])],
                    correlated=[(str(a), str(b), float(r)) for a, b, r in d.get("correlated", [])],

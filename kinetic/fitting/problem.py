@@ -7,8 +7,8 @@ user's ``progress`` or ``should_stop`` callback into one :class:`FitError`.
 from __future__ import annotations
 
 import math
+from collections.abc import Iterable, Mapping, Sequence
 from dataclasses import dataclass
-from typing import Iterable, Mapping, Sequence
 
 import numpy as np
 
@@ -17,9 +17,23 @@ from ..errors import FitError, ParameterError
 from ..lattice import LatticeModel
 from .target import LatticeTarget
 
-__all__ = ["FreeParameter", "Problem", "Block", "Cancelled", "resolve_free", "check_bounds", "check_names",
-           "check_int", "check_seed", "check_callable", "call_progress", "stop_requested", "callback_error",
-           "JAC_STEP", "BAD_RESIDUAL"]
+__all__ = [
+    "BAD_RESIDUAL",
+    "JAC_STEP",
+    "Block",
+    "Cancelled",
+    "FreeParameter",
+    "Problem",
+    "call_progress",
+    "callback_error",
+    "check_bounds",
+    "check_callable",
+    "check_int",
+    "check_names",
+    "check_seed",
+    "resolve_free",
+    "stop_requested",
+]
 
 #: Residual given to a model evaluation that is not finite (keeps the optimiser away).
 BAD_RESIDUAL = 1e3
@@ -82,7 +96,7 @@ class FreeParameter:
                 "lower": self.lower, "upper": self.upper, "unit": self.unit}
 
     @classmethod
-    def from_dict(cls, d) -> "FreeParameter":
+    def from_dict(cls, d) -> FreeParameter:
         """Rebuild from :meth:`to_dict` (records check the types first, see :mod:`kinetic.records`)."""
         return cls(name=str(d["name"]), param=str(d["param"]), samples=tuple(int(i) for i in d["samples"]),
                    log=bool(d["log"]), lower=float(d["lower"]), upper=float(d["upper"]),

@@ -361,8 +361,8 @@ class FitResult:
         level = check_level(level)
         title = "Lattice fit" + (f" of {len(self.labels)} samples" if len(self.labels) > 1 else
                                  (f" of {self.labels[0]!r}" if self.labels[0] else ""))
-        lines = [title, f"  {self.n_points} points, {self.n_free} free parameters, {len(self.starts)} start(s), "
-                        f"{self.nfev} model evaluations, {self.elapsed:.2f} s"]
+        lines = [title, (f"  {self.n_points} points, {self.n_free} free parameters, {len(self.starts)} start(s), "
+                         f"{self.nfev} model evaluations, {self.elapsed:.2f} s")]
         if self.provenance is not None:
             lines.append(f"  {self.provenance.describe()}")
         lines += ["  " + ln for ln in rows_text(self.report_rows(level), level)]

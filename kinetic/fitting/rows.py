@@ -11,7 +11,7 @@ import html
 import math
 from dataclasses import dataclass
 
-__all__ = ["ReportRow", "rows_text", "rows_html", "format_number"]
+__all__ = ["ReportRow", "format_number", "rows_html", "rows_text"]
 
 
 def format_number(v, digits: int = 4) -> str:

@@ -8,7 +8,7 @@ from __future__ import annotations
 import json
 import math
 import time
-from typing import Callable, Mapping, Sequence
+from collections.abc import Callable, Mapping, Sequence
 
 import numpy as np
 from scipy import optimize, stats
@@ -16,12 +16,22 @@ from scipy import optimize, stats
 from ..errors import DataError, FitError, ParameterError
 from ..lattice import LatticeModel
 from .flags import CORRELATION_LIMIT, GOODNESS_LIMIT, FitFlags
-from .problem import (Block, Cancelled, Problem, call_progress, check_callable, check_int, check_names, check_seed,
-                      resolve_free, stop_requested)
+from .problem import (
+    Block,
+    Cancelled,
+    Problem,
+    call_progress,
+    check_callable,
+    check_int,
+    check_names,
+    check_seed,
+    resolve_free,
+    stop_requested,
+)
 from .result import FitResult
 from .target import as_dataset, check_electronic, check_lorenz_method, lattice_target
 
-__all__ = ["fit", "fit_joint", "latin_hypercube", "WEIGHTS"]
+__all__ = ["WEIGHTS", "fit", "fit_joint", "latin_hypercube"]
 
 #: Fraction of a parameter's fitted range within which it counts as "at a bound".
 AT_BOUND = 1e-3
@@ -173,7 +183,7 @@ def _analyse(prob: Problem, x, estimate, fit_options, costs, start_points, best_
     n, p = r.size, x.size
     dof = n - p
     chi2 = float(np.sum(r * r))
-    U, S, Vt = np.linalg.svd(J, full_matrices=False)
+    _, S, Vt = np.linalg.svd(J, full_matrices=False)
     tol = S.max() * max(J.shape) * np.finfo(float).eps * 1e3 if S.size and S.max() > 0 else 0.0
     good = S > tol
     with np.errstate(over="ignore"):

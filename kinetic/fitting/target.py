@@ -7,8 +7,8 @@ resistivity (Wiedemann-Franz with the chosen Lorenz number).
 """
 from __future__ import annotations
 
+from collections.abc import Mapping
 from dataclasses import dataclass
-from typing import Mapping
 
 import numpy as np
 
@@ -16,8 +16,16 @@ from ..data import Dataset
 from ..electronic import lattice_from_total
 from ..errors import DataError, ParameterError
 
-__all__ = ["as_dataset", "LatticeTarget", "lattice_target", "check_electronic", "check_lorenz_method",
-           "DATA_KEYS", "LORENZ_METHODS", "ELECTRONIC_CHOICES"]
+__all__ = [
+    "DATA_KEYS",
+    "ELECTRONIC_CHOICES",
+    "LORENZ_METHODS",
+    "LatticeTarget",
+    "as_dataset",
+    "check_electronic",
+    "check_lorenz_method",
+    "lattice_target",
+]
 
 #: Lorenz-number methods accepted for the electronic subtraction.
 LORENZ_METHODS = ("auto", "sommerfeld", "spb", "kim")

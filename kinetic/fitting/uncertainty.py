@@ -11,7 +11,7 @@ from .common import check_level
 from .problem import check_int
 from .result import FitResult
 
-__all__ = ["ProfileInterval", "profile_interval", "need_problem"]
+__all__ = ["ProfileInterval", "need_problem", "profile_interval"]
 
 
 def need_problem(result):
@@ -135,7 +135,7 @@ def profile_interval(result: FitResult, name: str, level: float = 0.95, *, max_s
             tried_x.append(xj)
             tried_d.append(d)
             if d >= thr:
-                g = lambda t: rise(t, side) - thr  # noqa: E731
+                g = lambda t: rise(t, side) - thr
                 a, b = (xj, prev_x) if sign < 0 else (prev_x, xj)
                 root = optimize.brentq(g, a, b, xtol=1e-4 * s, rtol=1e-10)
                 ends[side], open_[side] = root, False

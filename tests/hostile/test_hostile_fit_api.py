@@ -13,8 +13,16 @@ import pytest
 from kinetic import demo
 from kinetic.data import Dataset
 from kinetic.errors import DataError, FitError, KineticError, ParameterError
-from kinetic.fitting import (bootstrap, default_free, default_model, fit, fit_joint, lattice_target, predict_band,
-                             profile_interval)
+from kinetic.fitting import (
+    bootstrap,
+    default_free,
+    default_model,
+    fit,
+    fit_joint,
+    lattice_target,
+    predict_band,
+    profile_interval,
+)
 
 
 @pytest.fixture(scope="module")
@@ -109,7 +117,7 @@ def test_should_stop_callback_that_raises_is_reported_as_such(model, data):
     def should_stop():
         calls.append(1)
         if len(calls) > 3:  # fails in the middle of a start, inside the optimiser
-            return [][1]
+            return [][1]  # noqa: PLE0643 -- the callback fails on purpose
         return False
 
     with pytest.raises(FitError) as e:

@@ -65,7 +65,7 @@ TAMPERED = [
     ("negative n_points", lambda d: d["fit"].__setitem__("n_points", -3), "fit.n_points"),
     ("n_points disagrees with the samples", lambda d: d["fit"].__setitem__("n_points", d["fit"]["n_points"] + 1),
      "fit.n_points"),
-    ("negative stderr", lambda d: d["fit"]["stderr"].__setitem__(_first(d), -0.1), f"fit.stderr."),
+    ("negative stderr", lambda d: d["fit"]["stderr"].__setitem__(_first(d), -0.1), "fit.stderr."),
     ("nan stderr", lambda d: d["fit"]["stderr"].__setitem__(_first(d), "nan"), "fit.stderr."),
     ("negative covariance diagonal",
      lambda d: d["fit"]["covariance_fitted"][0].__setitem__(0, -1e-3), "fit.covariance_fitted[0][0]"),
