@@ -21,12 +21,13 @@ import numpy as np
 
 from . import materials
 from ._io import atomic_write
-from .errors import ParameterError
+from .errors import ParameterError, RecordError
 from .estimates import cahill_minimum_for
 from .fitting import check_level, predict_band, sample_index
 from .fitting.rows import format_number
+from .records import record_json
 
-__all__ = ["FIGURE_FORMATS", "report_figure", "summary_table"]
+__all__ = ["FIGURE_FORMATS", "figure_bytes", "report_figure", "save_outputs", "summary_table"]
 
 #: File extensions report_figure can write.
 FIGURE_FORMATS = ("png", "svg", "pdf")
@@ -87,10 +88,7 @@ def report_figure(result, path=None, *, material=None, level: float = 0.95, samp
     )
 
     if path is not None:
-        ext = Path(path).suffix.lower().lstrip(".")
-        if ext not in FIGURE_FORMATS:
-            raise ParameterError(f"figure file {os.fspath(path)!r}: unknown extension {ext!r}; "
-                                 f"expected one of {', '.join('.' + e for e in FIGURE_FORMATS)}")
+        _figure_format(path)
     mat = None if material is False else _material(result, material)
     idx = list(range(len(result.labels))) if samples is None else [sample_index(result, s) for s in samples]
     fig = Figure(figsize=(7.0, 6.5), layout="constrained")
@@ -145,12 +143,75 @@ def report_figure(result, path=None, *, material=None, level: float = 0.95, samp
     return fig
 
 
+def _figure_format(path) -> str:
+    ext = Path(path).suffix.lower().lstrip(".")
+    if ext not in FIGURE_FORMATS:
+        raise ParameterError(f"figure file {os.fspath(path)!r}: unknown extension {ext!r}; "
+                             f"expected one of {', '.join('.' + e for e in FIGURE_FORMATS)}")
+    return ext
+
+
+def figure_bytes(fig, path, dpi: int = 150) -> bytes:
+    """The bytes of ``fig`` in the format of ``path``'s extension (rendered in memory, nothing written)."""
+    buf = io.BytesIO()
+    fig.savefig(buf, format=_figure_format(path), dpi=dpi)
+    return buf.getvalue()
+
+
 def _save(fig, path, dpi):
     """Render the figure in memory, then write it with the one atomic-write helper."""
-    ext = Path(path).suffix.lower().lstrip(".")
-    buf = io.BytesIO()
-    fig.savefig(buf, format=ext, dpi=dpi)
-    atomic_write(path, buf.getvalue())
+    atomic_write(path, figure_bytes(fig, path, dpi))
+
+
+def save_outputs(result, *, record=None, figure=None, data_path=None, material=None, level: float = 0.95,
+                 dpi: int = 150) -> list:
+    """Write a fit's record and/or report figure only once both are fully rendered.
+
+    Everything is prepared in memory first (the record's JSON, the figure's
+    bytes); only when every part has succeeded are the files written, each
+    with :func:`kinetic._io.atomic_write`. So a failure anywhere leaves no
+    output of a fit that did not complete. This is the call for a command
+    line's ``--save``/``--report``: fit first (``fit`` returns a complete
+    result or raises), then ``save_outputs``.
+
+    Parameters
+    ----------
+    result : FitResult
+    record : path, optional
+        Record file (.json), see :func:`kinetic.records.save_record`.
+    figure : path, optional
+        Figure file (.png, .svg, .pdf), see :func:`report_figure`.
+    data_path, material, level, dpi
+        As in :func:`kinetic.records.record_dict` and :func:`report_figure`.
+
+    Returns
+    -------
+    list of Path
+        The files written, record first.
+
+    Raises
+    ------
+    ParameterError, RecordError
+        Before anything is written (bad extension, unreadable data file...).
+    RecordError, kinetic._io.AtomicWriteError
+        A write failed (one line; that file is unchanged).
+    """
+    parts = []
+    if record is not None:
+        parts.append((record, record_json(result, data_path=data_path), True))
+    if figure is not None:
+        _figure_format(figure)
+        fig = report_figure(result, None, material=material, level=level)
+        parts.append((figure, figure_bytes(fig, figure, dpi), False))
+    out = []
+    for path, data, is_record in parts:
+        try:
+            out.append(atomic_write(path, data))
+        except OSError as exc:
+            if is_record:
+                raise RecordError(f"cannot save the record {exc}") from None
+            raise
+    return out
 
 
 def summary_table(result, level: float = 0.95) -> str:
