@@ -522,3 +522,12 @@ def test_interval_never_overflows_and_says_not_determined():
     assert not iv.determined and iv.bound == 1e-7 and "upper bound" in iv.note
     assert all(math.isnan(v) for v in r.interval("boundary.length"))
     assert "not determined" in r.summary() and "at the upper bound 1e-07" in r.summary()
+
+
+def test_a_kappa_jacobian_that_refuses_falls_back_to_differences(monkeypatch):
+    def refuses(self, temperature, names):
+        raise NotImplementedError("not for these parameters")
+
+    monkeypatch.setattr(LatticeModel, "kappa_jacobian", refuses, raising=False)
+    r = fit(START, noisy(6), FREE, n_starts=1)
+    assert not r.problem.analytic and r.success

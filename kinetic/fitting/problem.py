@@ -291,7 +291,8 @@ class Problem:
         self.hi = np.array([f.x_bounds[1] for f in frees])
         self.nfev = 0
         self.n = int(sum(b.ln_y.size for b in blocks))
-        self.analytic = all(callable(getattr(b.model, "kappa_jacobian", None)) for b in blocks)
+        self.analytic = all(callable(getattr(b.model, "kappa_jacobian", None)) for b in blocks) and \
+            self._probe_jacobian()
         self._cache = None
         self._set_sigma()
 
@@ -299,6 +300,22 @@ class Problem:
         self.sigma = [np.sqrt(b.e_rel**2 + self.s0**2) for b in self.blocks]
         self._sigma_all = np.concatenate(self.sigma)
         self._cache = None
+
+    def _probe_jacobian(self) -> bool:
+        """True when every model's kappa_jacobian answers for its free parameters (checked at one point).
+
+        A model whose kappa_jacobian refuses a parameter (NotImplementedError,
+        ParameterError, ...) is fitted with finite differences instead.
+        """
+        for i, b in enumerate(self.blocks):
+            names = [f.param for f in self.frees if i in f.samples]
+            try:
+                k, J = b.model.kappa_jacobian(b.target.temperature[:1], names)
+                if np.shape(J) != (1, len(names)):
+                    return False
+            except (NotImplementedError, ParameterError, KeyError, TypeError, ValueError):
+                return False
+        return True
 
     def invalidate(self):
         """Forget the cached evaluation (after changing ``ln_y`` of a block, e.g. in the bootstrap)."""
