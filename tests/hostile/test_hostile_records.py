@@ -291,3 +291,49 @@ def test_shipped_hostile_record_files(tmp_path):
         with pytest.raises(RecordError) as e:
             load_record(os.path.join(folder, name))
         assert text in str(e.value) and name in str(e.value) and "\n" not in str(e.value)
+
+
+def test_concurrent_saves_of_one_target_lose_nothing(tmp_path):
+    import threading
+
+    p = tmp_path / "same.txt"
+    texts = [f"writer {i}\n" * 2000 for i in range(8)]
+    errors = []
+
+    def save(t):
+        try:
+            atomic_write(p, t)
+        except Exception as exc:  # noqa: BLE001 -- any failure fails the test below
+            errors.append(exc)
+
+    threads = [threading.Thread(target=save, args=(t,)) for t in texts]
+    for th in threads:
+        th.start()
+    for th in threads:
+        th.join()
+    assert errors == []
+    assert p.read_text() in texts  # one complete version, never a mix
+    assert temp_files_of(p) == []
+
+
+def test_a_save_killed_mid_write_leaves_the_original_and_is_cleaned_next_time(tmp_path):
+    import signal
+    import subprocess
+
+    p = tmp_path / "fit.txt"
+    atomic_write(p, "original\n")
+    code = ("import os, sys, time\n"
+            "from kinetic import _io\n"
+            "real = os.fsync\n"
+            "def slow(fd):\n"
+            "    print('writing', flush=True); time.sleep(60)\n"
+            "os.fsync = slow\n"
+            f"_io.atomic_write({str(p)!r}, 'new\\n' * 1000)\n")
+    env = dict(os.environ, PYTHONPATH=os.pathsep.join(sys.path))
+    proc = subprocess.Popen([sys.executable, "-c", code], stdout=subprocess.PIPE, env=env)
+    assert proc.stdout.readline().strip() == b"writing"
+    proc.send_signal(signal.SIGKILL)
+    proc.wait()
+    assert p.read_text() == "original\n" and len(temp_files_of(p)) == 1  # the kill left its temp file
+    atomic_write(p, "next\n")
+    assert p.read_text() == "next\n" and temp_files_of(p) == []
