@@ -133,6 +133,12 @@ class FitResult:
         in this session. A loaded fit is a FitResult like any other: it can
         be summarised, reported, banded and saved again; profile intervals
         and the bootstrap need the live problem and ask for a refit.
+    problem : kinetic.fitting.problem.Problem or None
+        The live fit problem (used by :func:`profile_interval` and
+        :func:`bootstrap`); None for a fit loaded from a record.
+    x_fitted : ndarray or None
+        The optimum in the fitted space (log10 for log parameters), as the
+        optimiser left it; None for a loaded fit (use :attr:`x`).
 
     Report rows
     -----------
@@ -316,6 +322,17 @@ class FitResult:
         ``level``, or None), ``unit``, ``note`` (plain words: "not
         determined" reason such as "at the upper bound 0.01 m", what s0
         means, a poor-fit warning) and ``kind`` ("parameter" or "statistic").
+
+        Examples
+        --------
+        >>> from kinetic import demo
+        >>> from kinetic.fitting import fit
+        >>> r = fit(demo.demo_model(), demo.demo_dataset(), list(demo.DEFAULT_FREE), n_starts=1)
+        >>> [row.code_key for row in r.report_rows()][:4]
+        ['boundary.length', 'point_defect.gamma', 'umklapp.gruneisen', 'n_points']
+        >>> row = r.report_rows()[0]
+        >>> row.interval == r.interval("boundary.length") and row.unit
+        'm'
         """
         level = check_level(level)
         rows = []
