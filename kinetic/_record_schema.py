@@ -208,6 +208,14 @@ def _sample(R: _Reader, s, i: int):
         R.fail(wk, f"must hold one boolean per data row ({len(ds)}), got {len(kept)}")
     if sum(kept) != m:
         R.fail(wk, f"marks {sum(kept)} rows as kept but the target has {m} points")
+    keptm = np.array(kept, dtype=bool)
+    if not np.allclose(T, np.asarray(ds.temperature, dtype=float)[keptm], rtol=REL, atol=0.0):
+        R.fail(f"{wt}.temperature", "disagrees with the temperatures of the sample's data")
+    measured = np.asarray(ds.kappa, dtype=float)[keptm]
+    expect = measured if ke is None else measured - ke
+    if not np.allclose(k, expect, rtol=1e-9, atol=1e-12 * float(np.max(np.abs(measured)))):
+        R.fail(f"{wt}.kappa", "disagrees with the sample's data (kappa" + ("" if ke is None else
+                                                                         " - kappa_electronic") + ")")
     notes = R.strings(*R.key(t, "notes", wt))
     sig = R.numbers(*R.key(t, "sigma_relative", wt), size=m, lo=0.0, strict_lo=True)
     target = LatticeTarget(temperature=T, kappa=k, kappa_err=err, measured_err=merr, kappa_electronic=ke,

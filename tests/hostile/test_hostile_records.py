@@ -114,6 +114,13 @@ TAMPERED = [
         "kept", [1] * len(d["samples"][0]["lattice_target"]["kept"])), "samples[0].lattice_target.kept[0]"),
     ("version true", lambda d: d.__setitem__("version", True), "version"),
     ("nfev negative", lambda d: d["fit"].__setitem__("nfev", -1), "fit.nfev"),
+    ("target shifted against the data",
+     lambda d: d["samples"][0]["lattice_target"].__setitem__(
+         "kappa", [v * 1.1 for v in d["samples"][0]["lattice_target"]["kappa"]]),
+     "samples[0].lattice_target.kappa"),
+    ("target temperatures shifted", lambda d: d["samples"][0]["lattice_target"].__setitem__(
+        "temperature", [v + 1.0 for v in d["samples"][0]["lattice_target"]["temperature"]]),
+     "samples[0].lattice_target.temperature"),
     ("branch velocity as a string",
      lambda d: d["samples"][0]["model"]["branches"][0].__setitem__("velocity", "3877"),
      "samples[0].model.branches[0].velocity"),
