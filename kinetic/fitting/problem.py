@@ -310,7 +310,7 @@ class Problem:
         for i, b in enumerate(self.blocks):
             names = [f.param for f in self.frees if i in f.samples]
             try:
-                k, J = b.model.kappa_jacobian(b.target.temperature[:1], names)
+                _, J = b.model.kappa_jacobian(b.target.temperature[:1], names)
                 if np.shape(J) != (1, len(names)):
                     return False
             except (NotImplementedError, ParameterError, KeyError, TypeError, ValueError):
