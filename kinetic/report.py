@@ -13,15 +13,21 @@ works on any backend, including Agg on a headless machine.
 """
 from __future__ import annotations
 
+import io
 import os
-import tempfile
 from pathlib import Path
 
 import numpy as np
 
-from .errors import ParameterError
+from . import materials
+from ._io import atomic_write
+from .errors import ParameterError, RecordError
+from .estimates import cahill_minimum_for
+from .fitting import check_level, predict_band, sample_index
+from .fitting.rows import format_number
+from .records import record_json
 
-__all__ = ["report_figure", "summary_table", "FIGURE_FORMATS"]
+__all__ = ["FIGURE_FORMATS", "figure_bytes", "report_figure", "save_outputs", "summary_table"]
 
 #: File extensions report_figure can write.
 FIGURE_FORMATS = ("png", "svg", "pdf")
@@ -29,8 +35,6 @@ FIGURE_FORMATS = ("png", "svg", "pdf")
 
 def _material(result, material):
     """The Material for the Cahill floor: given, by name, or from the model (None if unknown)."""
-    from . import materials
-
     if material is None:
         name = getattr(result.models[0], "material", None)
         if not name:
@@ -49,11 +53,14 @@ def report_figure(result, path=None, *, material=None, level: float = 0.95, samp
 
     Parameters
     ----------
-    result : FitResult or Record
-        A fit (single or joint) or a loaded record.
+    result : FitResult
+        A fit (single or joint), made now or loaded from a record. Draw the
+        report of a completed fit only: :func:`kinetic.fitting.fit` returns
+        a complete result or raises, so "fit, then report" never leaves a
+        figure of a failed fit.
     path : str or os.PathLike, optional
         Save to this file; the format follows the extension (.png, .svg,
-        .pdf). Written atomically (temp file in the same folder, then renamed).
+        .pdf). Written atomically with :func:`kinetic._io.atomic_write`.
     material : Material or str, optional
         Host for the Cahill-Watson-Pohl floor (Cahill, Watson & Pohl, Phys.
         Rev. B 46, 6131, 1992, via :func:`kinetic.estimates.cahill_minimum_for`).
@@ -73,20 +80,17 @@ def report_figure(result, path=None, *, material=None, level: float = 0.95, samp
     ------
     ParameterError
         Unknown extension or material.
-    OSError
-        The file cannot be written.
+    kinetic._io.AtomicWriteError
+        The file cannot be written (one line; an earlier file is unchanged).
     """
-    from matplotlib.figure import Figure
-
-    from .fitting import _sample_index, predict_band
+    from matplotlib.figure import (
+        Figure,  # lazily: matplotlib is heavy and only reports need it
+    )
 
     if path is not None:
-        ext = Path(path).suffix.lower().lstrip(".")
-        if ext not in FIGURE_FORMATS:
-            raise ParameterError(f"figure file {os.fspath(path)!r}: unknown extension {ext!r}; "
-                                 f"expected one of {', '.join('.' + e for e in FIGURE_FORMATS)}")
+        _figure_format(path)
     mat = None if material is False else _material(result, material)
-    idx = list(range(len(result.labels))) if samples is None else [_sample_index(result, s) for s in samples]
+    idx = list(range(len(result.labels))) if samples is None else [sample_index(result, s) for s in samples]
     fig = Figure(figsize=(7.0, 6.5), layout="constrained")
     gs = fig.add_gridspec(2, 1, height_ratios=(3, 1))
     ax = fig.add_subplot(gs[0])
@@ -120,8 +124,6 @@ def report_figure(result, path=None, *, material=None, level: float = 0.95, samp
         s = result.sigma_relative[i]
         axr.errorbar(T, 100.0 * r, yerr=100.0 * s, fmt="o", ms=3, color=c)
     if mat is not None:
-        from .estimates import cahill_minimum_for
-
         Tc = np.geomspace(max(0.8 * tmin, 0.1), 1.1 * tmax, 200)
         ax.plot(Tc, cahill_minimum_for(mat, Tc), "-.", color="0.4", lw=1,
                 label=f"Cahill-Watson-Pohl minimum ({mat.name})")
@@ -141,42 +143,103 @@ def report_figure(result, path=None, *, material=None, level: float = 0.95, samp
     return fig
 
 
+def _figure_format(path) -> str:
+    ext = Path(path).suffix.lower().lstrip(".")
+    if ext not in FIGURE_FORMATS:
+        raise ParameterError(f"figure file {os.fspath(path)!r}: unknown extension {ext!r}; "
+                             f"expected one of {', '.join('.' + e for e in FIGURE_FORMATS)}")
+    return ext
+
+
+def figure_bytes(fig, path, dpi: int = 150) -> bytes:
+    """The bytes of ``fig`` in the format of ``path``'s extension (rendered in memory, nothing written)."""
+    buf = io.BytesIO()
+    fig.savefig(buf, format=_figure_format(path), dpi=dpi)
+    return buf.getvalue()
+
+
 def _save(fig, path, dpi):
-    path = Path(path)
-    ext = path.suffix.lower().lstrip(".")
-    folder = path.parent if str(path.parent) else Path(".")
-    fd, tmp = tempfile.mkstemp(dir=folder, prefix=f".{path.name}.", suffix=f".{ext}")
-    os.close(fd)
-    try:
-        fig.savefig(tmp, format=ext, dpi=dpi)
-        os.replace(tmp, path)
-    except BaseException:
-        if os.path.exists(tmp):
-            os.unlink(tmp)
-        raise
+    """Render the figure in memory, then write it with the one atomic-write helper."""
+    atomic_write(path, figure_bytes(fig, path, dpi))
 
 
-def summary_table(result, level: float = 0.95) -> str:
-    """Plain-text table: parameters with errors and intervals, per-sample fit quality, warnings.
+def save_outputs(result, *, record=None, figure=None, data_path=None, material=None, level: float = 0.95,
+                 dpi: int = 150) -> list:
+    """Write a fit's record and/or report figure only once both are fully rendered.
+
+    Everything is prepared in memory first (the record's JSON, the figure's
+    bytes); only when every part has succeeded are the files written, each
+    with :func:`kinetic._io.atomic_write`. So a failure anywhere leaves no
+    output of a fit that did not complete. This is the call for a command
+    line's ``--save``/``--report``: fit first (``fit`` returns a complete
+    result or raises), then ``save_outputs``.
 
     Parameters
     ----------
-    result : FitResult or Record
+    result : FitResult
+    record : path, optional
+        Record file (.json), see :func:`kinetic.records.save_record`.
+    figure : path, optional
+        Figure file (.png, .svg, .pdf), see :func:`report_figure`.
+    data_path, material, level, dpi
+        As in :func:`kinetic.records.record_dict` and :func:`report_figure`.
+
+    Returns
+    -------
+    list of Path
+        The files written, record first.
+
+    Raises
+    ------
+    ParameterError, RecordError
+        Before anything is written (bad extension, unreadable data file...).
+    RecordError, kinetic._io.AtomicWriteError
+        A write failed (one line; that file is unchanged).
+    """
+    parts = []
+    if record is not None:
+        parts.append((record, record_json(result, data_path=data_path), True))
+    if figure is not None:
+        _figure_format(figure)
+        fig = report_figure(result, None, material=material, level=level)
+        parts.append((figure, figure_bytes(fig, figure, dpi), False))
+    out = []
+    for path, data, is_record in parts:
+        try:
+            out.append(atomic_write(path, data))
+        except OSError as exc:
+            if is_record:
+                raise RecordError(f"cannot save the record {exc}") from None
+            raise
+    return out
+
+
+def summary_table(result, level: float = 0.95) -> str:
+    """Plain-text table rendered from ``result.report_rows(level)``, plus per-sample fit quality and warnings.
+
+    Parameters
+    ----------
+    result : FitResult
+        A fit, made now or loaded from a record.
     level : float
         Confidence level of the intervals.
     """
-    from .fitting import _level
-
-    level = _level(level)
+    level = check_level(level)
     pct = f"{100 * level:g}%"
-    names = list(result.names)
-    w = max(len("parameter"), max(len(n) for n in names))
-    rows = [f"{'parameter'.ljust(w)}  {'value':>11}  {'stderr':>10}  {('low ' + pct):>11}  {('high ' + pct):>11}  unit"]
-    rows.append("-" * len(rows[0]))
-    for n in names:
-        lo, hi = result.interval(n, level)
-        rows.append(f"{n.ljust(w)}  {result.values[n]:11.4g}  {result.stderr[n]:10.3g}  {lo:11.4g}  {hi:11.4g}  "
-                    f"{result.units.get(n, '')}".rstrip())
+    rows_all = result.report_rows(level)
+    params = [r for r in rows_all if r.kind == "parameter"]
+    w = max(len("parameter"), max(len(r.label) for r in params))
+    head = f"{'parameter'.ljust(w)}  {'value':>11}  {'stderr':>10}  {('low ' + pct):>11}  {('high ' + pct):>11}  unit"
+    rows = [head, "-" * len(head)]
+    for r in params:
+        if r.interval is None:
+            lo_hi = f"{'not determined':>24}"
+        else:
+            lo_hi = f"{format_number(r.interval[0]):>11}  {format_number(r.interval[1]):>11}"
+        line = f"{r.label.ljust(w)}  {r.value_text:>11}  {(r.error_text or '-'):>10}  {lo_hi}  {r.unit}".rstrip()
+        if r.note:
+            line += f"   ({r.note})"
+        rows.append(line)
     rows.append("")
     lw = max(len("sample"), max(len(s) for s in result.labels))
     rows.append(f"{'sample'.ljust(lw)}  points  T range [K]     rms resid  max |resid|")
@@ -188,12 +251,10 @@ def summary_table(result, level: float = 0.95) -> str:
         rows.append(f"{lab.ljust(lw)}  {r.size:6d}  {T.min():6.4g}-{T.max():<7.4g}  {100 * np.sqrt(np.mean(r * r)):8.2f}%"
                     f"  {100 * np.max(np.abs(r)):10.2f}%")
     rows.append("")
-    rows.append(f"chi2 {result.chi2:.4g} on {result.dof} degrees of freedom (reduced {result.reduced_chi2:.3g}); "
-                f"AIC {result.aic:.4g}; BIC {result.bic:.4g}")
-    if result.scatter_estimated:
-        rows.append(f"weights: relative scatter estimated from the residuals, s0 = {100 * result.scatter:.2f}%")
-    else:
-        rows.append("weights: stated kappa errors (and electronic-part errors)")
-    for m in result.flags.messages():
+    for r in rows_all:
+        if r.kind != "parameter":
+            unit = r.unit if r.unit == "%" else (f" {r.unit}" if r.unit else "")
+            rows.append(f"{r.label}: {r.value_text}{unit}" + (f" ({r.note})" if r.note else ""))
+    for m in result.warnings():
         rows.append(f"WARNING: {m}")
     return "\n".join(rows)

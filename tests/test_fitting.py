@@ -9,11 +9,31 @@ import numpy as np
 import pytest
 from scipy import stats
 
-from kinetic import Boundary, DataError, FitError, LatticeModel, ParameterError, PointDefect, Umklapp, materials
+from kinetic import (
+    Boundary,
+    DataError,
+    FitError,
+    LatticeModel,
+    ParameterError,
+    PointDefect,
+    Umklapp,
+    materials,
+)
 from kinetic.data import Dataset
 from kinetic.electronic import lattice_from_total
-from kinetic.fitting import (_lhs, as_dataset, bootstrap, compare, default_free, default_model, fit, fit_joint,
-                             lattice_target, predict_band, profile_interval)
+from kinetic.fitting import (
+    as_dataset,
+    bootstrap,
+    compare,
+    default_free,
+    default_model,
+    fit,
+    fit_joint,
+    latin_hypercube,
+    lattice_target,
+    predict_band,
+    profile_interval,
+)
 
 HOST = materials.get("Mg2Si")  # host properties only; the samples are invented
 TRUE = {"boundary.length": 2e-6, "point_defect.gamma": 0.02, "umklapp.gruneisen": 1.8}
@@ -263,7 +283,7 @@ def test_cancel_inside_an_iteration_is_seen():
 
 # ------------------------------------------------------------------ multi-start
 def test_latin_hypercube_fills_every_stratum():
-    u = _lhs(16, 3, np.random.default_rng(0))
+    u = latin_hypercube(16, 3, np.random.default_rng(0))
     for j in range(3):
         assert sorted(np.floor(u[:, j] * 16).astype(int)) == list(range(16))
 
@@ -439,3 +459,75 @@ def test_demo_grain_series_joint_fit_recovers_the_invented_truth():
         assert abs(math.log10(r.values[n] / L)) < 4 * r.stderr_fitted[n], (n, r.values[n])
     for n in ("point_defect.gamma", "umklapp.gruneisen"):
         assert abs(math.log10(r.values[n] / demo.TRUE_SAMPLE_A[n])) < 4 * r.stderr_fitted[n]
+
+
+# ------------------------------------------------------------------ analytic Jacobian path
+def _difference_jacobian(self, temperature, names):
+    """Test stand-in for the engine's LatticeModel.kappa_jacobian: central differences, step 1e-5 relative.
+
+    Truncation error ~ (1e-5)^2 relative, far below the fit's tolerances; it only has to have the
+    engine's signature, (kappa, J) with J[i, j] = d kappa(T_i) / d params[names[j]] in natural units.
+    """
+    T = np.atleast_1d(np.asarray(temperature, dtype=float))
+    k = self.kappa(T)
+    J = np.empty((T.size, len(names)))
+    for j, n in enumerate(names):
+        v = self.params[n]
+        h = 1e-5 * abs(v)
+        J[:, j] = (self.with_params({n: v + h}).kappa(T) - self.with_params({n: v - h}).kappa(T)) / (2 * h)
+    return k, J
+
+
+def test_fit_uses_the_models_kappa_jacobian_and_agrees_with_differences(monkeypatch):
+    data = noisy(3)
+    plain = fit(START, data, FREE, n_starts=1)
+    assert not plain.problem.analytic
+    monkeypatch.setattr(LatticeModel, "kappa_jacobian", _difference_jacobian, raising=False)
+    fast = fit(START, data, FREE, n_starts=1)
+    assert fast.problem.analytic
+    assert fast.nfev < plain.nfev  # no finite-difference columns in the optimiser
+    for n in FREE:
+        # same optimum: both converge to ftol 1e-10; 1e-6 relative leaves room for the
+        # different Jacobians' rounding (the stderr is ~1e-2 relative, so this is 4 decades inside it)
+        assert fast.values[n] == pytest.approx(plain.values[n], rel=1e-6)
+        assert fast.stderr[n] == pytest.approx(plain.stderr[n], rel=1e-4)  # two difference schemes
+    b1, b2 = predict_band(plain, [30.0, 300.0]), predict_band(fast, [30.0, 300.0])
+    assert np.allclose(b1.upper, b2.upper, rtol=1e-6)
+
+
+# ------------------------------------------------------------------ report rows and renderings
+def test_report_rows_feed_summary_html_and_json():
+    r = fit(START, noisy(4), FREE, n_starts=1)
+    rows = r.report_rows(0.9)
+    params = [x for x in rows if x.kind == "parameter"]
+    assert [x.code_key for x in params] == r.names
+    for x in params:
+        assert x.interval == pytest.approx(r.interval(x.code_key, 0.9))
+        assert x.value == r.values[x.code_key] and x.error == r.stderr[x.code_key]
+    keys = {x.code_key for x in rows}
+    assert {"chi2", "reduced_chi2", "p_value", "scatter_percent", "aic", "bic", "n_points"} <= keys
+    text, html = r.summary(0.9), r._repr_html_()
+    for x in rows:
+        assert x.label in text and x.label in html
+    d = r.to_dict()
+    assert d["rows"] == [x.to_dict() for x in r.report_rows(0.95)]
+    assert d["p_value"] == pytest.approx(stats.chi2.sf(r.chi2, r.dof))
+
+
+def test_interval_never_overflows_and_says_not_determined():
+    # a parameter pinned at a bound: no 10**x of an error of thousands of decades
+    r = fit(START, noisy(5), FREE, n_starts=1, bounds={"boundary.length": (1e-9, 1e-7)})
+    assert "boundary.length" in r.flags.at_bound
+    iv = r.interval_info("boundary.length")
+    assert not iv.determined and iv.bound == 1e-7 and "upper bound" in iv.note
+    assert all(math.isnan(v) for v in r.interval("boundary.length"))
+    assert "not determined" in r.summary() and "at the upper bound 1e-07" in r.summary()
+
+
+def test_a_kappa_jacobian_that_refuses_falls_back_to_differences(monkeypatch):
+    def refuses(self, temperature, names):
+        raise NotImplementedError("not for these parameters")
+
+    monkeypatch.setattr(LatticeModel, "kappa_jacobian", refuses, raising=False)
+    r = fit(START, noisy(6), FREE, n_starts=1)
+    assert not r.problem.analytic and r.success

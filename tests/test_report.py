@@ -81,3 +81,29 @@ def test_matplotlib_only_imported_by_report():
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True,
                          env={**os.environ, "MPLBACKEND": "Agg"})
     assert out.stdout.strip() == "False"
+
+
+def test_save_outputs_writes_nothing_when_a_part_fails(tmp_path):
+    from kinetic.report import save_outputs
+
+    r = fit(demo.demo_model(), demo.demo_dataset(), list(demo.DEFAULT_FREE), n_starts=1)
+    rec, fig = tmp_path / "fit.json", tmp_path / "fit.png"
+    # a bad figure extension is found before the record is written
+    with pytest.raises(ParameterError, match="extension"):
+        save_outputs(r, record=rec, figure=tmp_path / "fit.bmp")
+    assert not rec.exists()
+    written = save_outputs(r, record=rec, figure=fig)
+    assert written == [rec, fig] and rec.stat().st_size > 0 and fig.read_bytes()[:4] == b"\x89PNG"
+    assert load_record(rec).values == r.values
+
+
+def test_summary_table_says_not_determined_for_a_parameter_at_a_bound():
+    import copy
+
+    r = fit(demo.demo_model(), demo.demo_dataset(), list(demo.DEFAULT_FREE), n_starts=1)
+    r2 = copy.copy(r)
+    r2.flags = copy.deepcopy(r.flags)
+    r2.flags.at_bound = [r.names[0]]
+    text = summary_table(r2)
+    line = next(x for x in text.splitlines() if x.startswith(r.names[0]))
+    assert "not determined" in line and "bound" in line
