@@ -65,7 +65,7 @@ def test_fit_file_save_report_then_predict_and_sweep(capsys, tmp_path):
 
 def test_joint_fit_of_several_files(capsys, tmp_path):
     files = [str(demo.demo_path(f"grain_{i}.csv")) for i in (1, 2)]
-    rc, out, _ = run(capsys, "fit", *files, "--material", "Mg2Si", "--starts", "1", "--quiet", "--json")
+    rc, out, _ = run(capsys, "fit", *files, "--joint", "--material", "Mg2Si", "--starts", "1", "--quiet", "--json")
     assert rc == 0
     d = json.loads(out)
     assert "boundary.length[grain 0.5 um]" in d["values"] and "umklapp.gruneisen" in d["values"]
