@@ -42,8 +42,19 @@ import numpy as np
 
 from .errors import ParameterError
 
-__all__ = ["as_float_array", "finite", "positive", "nonnegative", "in_range", "integer", "choice",
-           "shape", "temperatures", "callable_or_none", "is_quantity"]
+__all__ = [
+    "as_float_array",
+    "callable_or_none",
+    "choice",
+    "finite",
+    "in_range",
+    "integer",
+    "is_quantity",
+    "nonnegative",
+    "positive",
+    "shape",
+    "temperatures",
+]
 
 
 def _show(value) -> str:
@@ -67,7 +78,7 @@ def _from_quantity(name: str, value, unit: str):
     target = unit.strip() if unit else ""
     try:
         converted = value.to(target) if target else value.to("dimensionless")
-    except Exception as exc:  # pint's DimensionalityError or an unparseable unit label
+    except Exception as exc:  # noqa: BLE001 - pint's DimensionalityError or an unparseable unit label
         want = f"a quantity convertible to {target}" if target else "a plain number (no unit)"
         raise ParameterError(f"{name} must be {want}, got {value!r} ({type(exc).__name__})") from None
     return converted.magnitude

@@ -40,7 +40,7 @@ import numpy as np
 from ._validate import callable_or_none, integer, temperatures
 from .errors import KineticError, ParameterError
 
-__all__ = ["fit_many", "BatchResult", "TABLE_SUFFIXES"]
+__all__ = ["TABLE_SUFFIXES", "BatchResult", "fit_many"]
 
 #: File name endings read as data tables when a folder is given.
 TABLE_SUFFIXES = (".csv", ".tsv", ".txt", ".dat")
@@ -146,7 +146,7 @@ class BatchResult:
             if len(row) == 2 and row[1].startswith("error"):
                 text.append(f"{row[0]:<{widths[0]}}  {row[1]}")
             else:
-                text.append("  ".join(f"{str(c):<{w}}" for c, w in zip(row, widths)).rstrip())
+                text.append("  ".join(f"{c!s:<{w}}" for c, w in zip(row, widths)).rstrip())
         return "\n".join(text)
 
 
@@ -265,7 +265,7 @@ def fit_one(path, model, free, at, fit_options, load_options, tmin=None, tmax=No
         if chi2r is None:
             chi2r = getattr(res, "reduced_chi2", None)
         row = {"file": str(path), "label": label, "status": "ok", "error": None,
-               "n_points": int(len(ds.temperature)),
+               "n_points": len(ds.temperature),
                "chi2_reduced": None if chi2r is None or not math.isfinite(chi2r) else float(chi2r),
                "values": values, "stderr": stderr,
                "kappa_lattice": {_tkey(t): (float(v) if math.isfinite(v) else None) for t, v in zip(at, k)},
@@ -439,21 +439,22 @@ def _report(bar, i, rows, total):
     done = sum(r is not None for r in rows)
     try:
         bar(done, total, rows[i])
-    except Exception as exc:  # a user callback that raises must say so, not lose the batch
+    except Exception as exc:  # noqa: BLE001 - a user callback that raises must say so, not lose the batch
         raise ParameterError(f"progress callback raised {type(exc).__name__}: {exc}") from None
 
 
 def _result_or_error_row(future, task) -> dict:
     try:
         return future.result()
-    except Exception as exc:  # a worker that died (killed, out of memory) or a row that cannot travel back
+    except Exception as exc:  # noqa: BLE001 - a worker that died (killed, out of memory) or a row that cannot travel back
         path = task[0]
         return _error_row(path, os.path.splitext(os.path.basename(str(path)))[0], _one_line(exc))
 
 
 def _run_dask(scheduler, tasks, rows, bar):
     try:
-        from distributed import Client, as_completed as dask_completed
+        from distributed import Client
+        from distributed import as_completed as dask_completed
     except ImportError:
         raise ParameterError("--dask-scheduler needs the optional Dask extra: "
                              "pip install \"kinetic-conductivity[dask]\"") from None

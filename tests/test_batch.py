@@ -4,6 +4,7 @@ import errno
 import json
 import os
 import sys
+from pathlib import Path
 
 import numpy as np
 import pytest
@@ -168,7 +169,7 @@ def test_cli_batch_over_a_folder_writes_both_tables(capsys, tmp_path):
     folder = tmp_path / "series"
     folder.mkdir()
     for p in GRAIN:
-        (folder / os.path.basename(p)).write_bytes(open(p, "rb").read())
+        (folder / os.path.basename(p)).write_bytes(Path(p).read_bytes())
     rc = main(["fit", str(folder), "--material", "Mg2Si", "--starts", "1", "--jobs", "1", "--quiet",
                "--at", "300,600", "--summary", str(tmp_path / "s.csv"), "--summary", str(tmp_path / "s.json")])
     out, err = capsys.readouterr()

@@ -48,13 +48,13 @@ import argparse
 import os
 import sys
 
-from ..errors import KineticError, ParameterError
+from ..errors import KineticError
 from . import fit as _fit
 from . import info as _info
 from . import predict as _predict
 from ._args import cli_words, parse_numbers
 
-__all__ = ["main", "build_parser", "parse_numbers"]
+__all__ = ["build_parser", "main", "parse_numbers"]
 
 PROG = "kinetic"
 
@@ -66,7 +66,7 @@ class _UsageError(Exception):
 class _Parser(argparse.ArgumentParser):
     """ArgumentParser whose errors are one line (raised, printed by main)."""
 
-    def error(self, message):  # noqa: D401 - argparse API
+    def error(self, message):
         raise _UsageError(f"{self.prog}: {message} (see {self.prog} --help)")
 
 

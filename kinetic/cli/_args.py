@@ -71,7 +71,7 @@ def number(text, name: str, *, unit: str | None = None) -> float:
     try:
         q = ureg.Quantity(value, utext)
         return float(q.to(unit).magnitude)
-    except Exception as exc:  # pint: UndefinedUnitError, DimensionalityError, syntax errors
+    except Exception as exc:  # noqa: BLE001 - pint: UndefinedUnitError, DimensionalityError, syntax errors
         kind = type(exc).__name__
         why = "not convertible to " + unit if kind == "DimensionalityError" else "not a unit pint can read"
         raise ParameterError(f"{name}: cannot read {s!r}: {utext!r} is {why}") from None
@@ -128,15 +128,13 @@ def parse_numbers(tokens, name: str, *, unit: str | None = None, limit: int = MA
     return np.concatenate(out) if out else np.zeros(0)
 
 
-def assignments(items, name: str) -> dict:
-    """``NAME=VALUE`` options as a dict of strings."""
+def assignments(items, name: str, form: str = "NAME=VALUE") -> dict:
+    """``NAME=VALUE`` options as a dict of strings (``form`` names the shape in errors)."""
     out = {}
     for it in items or []:
-        if "=" not in it:
-            raise ParameterError(f"{name}: expected NAME=VALUE, got {it!r}")
-        k, v = it.split("=", 1)
-        if not k.strip():
-            raise ParameterError(f"{name}: expected NAME=VALUE, got {it!r}")
+        k, eq, v = str(it).partition("=")
+        if not eq or not k.strip():
+            raise ParameterError(f"{name}: expected {form}, got {it!r}")
         out[k.strip()] = v.strip()
     return out
 

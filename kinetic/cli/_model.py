@@ -87,6 +87,6 @@ def model_from(args, material=None):
 def grain_size(text) -> float:
     """``--grain-size``: a length in m, or with a unit (``2um``, ``150 nm``)."""
     v = number(text, "--grain-size", unit="m")
-    if not v > 0 or v != v or v == float("inf"):
+    if not 0.0 < v < float("inf"):
         raise ParameterError(f"--grain-size must be a finite length > 0, got {text!r}")
     return v

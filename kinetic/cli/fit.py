@@ -10,7 +10,15 @@ import os
 import sys
 
 from ..errors import ParameterError
-from ._args import OPTION_OF, assignments, expand_inputs, is_pattern, number, parse_numbers, regular_file
+from ._args import (
+    OPTION_OF,
+    assignments,
+    expand_inputs,
+    is_pattern,
+    number,
+    parse_numbers,
+    regular_file,
+)
 from ._model import default_free, model_from, scope_notes
 from ._output import dump, jsonable, progress_wanted
 
@@ -75,9 +83,9 @@ def load_options(args) -> dict:
     if args.ignore_column:
         opts["ignore_columns"] = list(args.ignore_column)
     if args.unit:
-        opts["units"] = assignments(args.unit, "--unit")
+        opts["units"] = assignments(args.unit, "--unit", "COLUMN=UNIT")
     if args.column:
-        opts["columns"] = assignments(args.column, "--column")
+        opts["columns"] = assignments(args.column, "--column", "HEADER=NAME")
     for name in ("delimiter", "decimal", "encoding", "porosity_correction"):
         if getattr(args, name, None) is not None:
             opts[name] = getattr(args, name)
@@ -118,7 +126,7 @@ def _temperature_limit(text, name):
 
 def _bounds(args) -> dict:
     bounds = {}
-    for k, v in assignments(args.bounds, "--bounds").items():
+    for k, v in assignments(args.bounds, "--bounds", "NAME=LO:HI").items():
         parts = v.split(":")
         if len(parts) != 2:
             raise ParameterError(f"--bounds {k}: expected LO:HI, got {v!r}")
