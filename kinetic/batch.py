@@ -177,11 +177,11 @@ def _plain(obj):
     return obj
 
 
-def _atomic_write(path, text: str) -> None:
+def _local_atomic_write(path, text: str) -> None:
     """Write text to ``path`` atomically: a temporary file in the same folder, fsync, rename.
 
-    Transitional: kinetic._io.atomic_write replaces this at merge (the project's one
-    atomic-write helper); same contract.
+    Transitional, used only where ``kinetic._io`` (the project's one atomic-write
+    helper, same contract) is not in the build: delete once it is merged.
     """
     path = os.fspath(path)
     folder = os.path.dirname(os.path.abspath(path))
@@ -201,6 +201,12 @@ def _atomic_write(path, text: str) -> None:
         except OSError:
             pass
         raise
+
+
+try:
+    from ._io import atomic_write as _atomic_write
+except ImportError:  # transitional, see _local_atomic_write
+    _atomic_write = _local_atomic_write
 
 
 # ------------------------------------------------------------------------------

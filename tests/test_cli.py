@@ -140,3 +140,48 @@ def test_console_script_in_a_real_process(tmp_path):
     bad = subprocess.run([sys.executable, "-m", "kinetic.cli", "fit", str(tmp_path / "x.csv"), "--material", "Si"],
                          capture_output=True, text=True, check=False)
     assert bad.returncode == 2 and len(bad.stderr.strip().splitlines()) == 1 and "Traceback" not in bad.stderr
+
+
+def test_materials_lists_each_preset_with_its_calibration_or_none(capsys):
+    from kinetic.presets import PRESETS
+
+    rc, out, _ = run(capsys, "materials", "--json")
+    rows = json.loads(out)
+    assert rc == 0 and [r["name"] for r in rows] == list(PRESETS)
+    for r in rows:
+        assert r["calibrated"] == (r["calibration"] is not None)
+        if r["calibrated"]:
+            c = r["calibration"]
+            assert c["source"] and 0 < c["t_min"] < c["t_max"] and c["rms"] >= 0 and c["n_points"] > 0
+    rc, out, _ = run(capsys, "materials")
+    assert rc == 0 and all(name in out for name in PRESETS) and "presets calibrated" in out
+
+
+def test_preset_calibration_rule():
+    from kinetic.cli.info import preset_calibration
+
+    cal = {"value": {"table": "reference/x.csv", "t_min": 100, "t_max": 800, "rms": 0.05, "n_points": 12,
+                     "sample": "bulk crystal"}, "source": "A. Author, J. (2000)"}
+    model = {"value": {"branches": "avg"}}
+    assert preset_calibration({"calibration": cal, "model": model}) == {
+        "source": "A. Author, J. (2000)", "table": "reference/x.csv", "t_min": 100.0, "t_max": 800.0,
+        "rms": 0.05, "n_points": 12, "sample": "bulk crystal"}
+    assert preset_calibration({"calibration": cal}) is None                 # no calibrated model
+    assert preset_calibration({"model": model}) is None                     # no calibration record
+    assert preset_calibration({"calibration": {"value": None}, "model": model}) is None
+
+
+def test_materials_agrees_with_the_defaults_module():
+    # kinetic materials reads the preset tables directly (speed); kinetic.defaults is the reference
+    defaults = pytest.importorskip("kinetic.defaults")
+    if not hasattr(defaults, "calibration"):
+        pytest.skip("kinetic.defaults.calibration not in this build")
+    from kinetic.cli.info import material_rows
+
+    for r in material_rows():
+        ref = defaults.calibration(r["name"])
+        assert (ref is None) == (r["calibration"] is None), r["name"]
+        if ref is not None:
+            c = r["calibration"]
+            assert (c["source"], c["t_min"], c["t_max"], c["rms"], c["n_points"], c["sample"]) == \
+                   (ref.source, ref.t_min, ref.t_max, ref.rms, ref.n_points, ref.sample)

@@ -45,13 +45,6 @@ def default_free(model) -> list:
     return list(free(model))
 
 
-def calibration(material):
-    """The preset's calibration (source, t_min, t_max, rms, n_points, sample) or None."""
-    d = _defaults()
-    f = getattr(d, "calibration", None) if d is not None else None
-    return f(material) if f is not None else None
-
-
 def scope_notes(material, **where) -> list:
     """Plain notes on where a prediction leaves what the preset was checked against."""
     d = _defaults()

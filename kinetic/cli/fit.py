@@ -19,7 +19,7 @@ from ._args import (
     parse_numbers,
     regular_file,
 )
-from ._model import default_free, model_from, scope_notes
+from ._model import default_free, model_from
 from ._output import dump, jsonable, progress_wanted
 
 
@@ -198,21 +198,18 @@ def _run_one(args) -> int:
         bar.close()
     # Everything shown is rendered before anything is written: a fit whose summary
     # cannot be produced leaves no record or figure behind.
-    t_all = [float(t) for ds in datasets for t in (ds.temperature.min(), ds.temperature.max())]
-    notes = scope_notes(material, temperature=[min(t_all), max(t_all)])
     if args.json:
         out = res.to_dict()
         out["record"] = args.save
         out["report"] = args.report
         out["material"] = material
-        out["scope_notes"] = notes
         out["samples"] = [{"label": lab, "temperature": jsonable(t.temperature),
                            "kappa_lattice": jsonable(t.kappa),
                            "kappa_fit": jsonable(res.models[i].kappa(t.temperature))}
                           for i, (lab, t) in enumerate(zip(res.labels, res.targets))]
         text = dump(out)
     else:
-        text = res.summary() + "".join(f"\nnote: {n}" for n in notes)
+        text = res.summary()
     if args.save:
         from ..records import save_record
 

@@ -1,8 +1,11 @@
 """``kinetic materials`` (presets and their calibration) and ``kinetic demo`` (the invented demo data).
 
 ``materials`` reads the plain preset tables (:mod:`kinetic.presets`, no numpy
-or scipy) and each preset's calibration (``kinetic.defaults.calibration``),
-so that it answers within half a second (measured: benchmarks/bench_cli.py).
+or scipy), the calibration records included, so that it answers within half
+a second (measured: benchmarks/bench_cli.py); ``kinetic.defaults`` imports the
+engine (scipy) and would take longer than that on its own.
+:func:`preset_calibration` reads the same preset fields as
+``kinetic.defaults.calibration`` (a test checks that they agree).
 """
 from __future__ import annotations
 
@@ -10,7 +13,6 @@ import shutil
 from pathlib import Path
 
 from ..errors import ParameterError
-from ._model import calibration
 from ._output import dump
 
 
@@ -27,16 +29,21 @@ def _value(preset, field):
     return e.get("value") if isinstance(e, dict) else None
 
 
-def _calibration_dict(cal):
-    if cal is None:
+def preset_calibration(preset) -> dict | None:
+    """The calibration of one preset table as a dict, or None when it has no calibrated model.
+
+    Keys: source, table, t_min [K], t_max [K], rms (relative, a fraction),
+    n_points, sample. A preset is calibrated when it carries both a
+    ``"calibration"`` record and a calibrated ``"model"`` (or ``"model_avg"``).
+    """
+    cal = preset.get("calibration")
+    has_model = any(isinstance(preset.get(f), dict) and preset[f].get("value") for f in ("model", "model_avg"))
+    if not isinstance(cal, dict) or not cal.get("value") or not has_model:
         return None
-    if isinstance(cal, dict):
-        d = dict(cal)
-    else:
-        d = {k: getattr(cal, k) for k in ("source", "t_min", "t_max", "rms", "n_points", "sample")
-             if hasattr(cal, k)}
-    return {k: (float(v) if isinstance(v, (int, float)) and not isinstance(v, bool) and k != "n_points" else v)
-            for k, v in d.items()}
+    v = cal["value"]
+    return {"source": cal.get("source", ""), "table": v.get("table"), "t_min": float(v["t_min"]),
+            "t_max": float(v["t_max"]), "rms": float(v["rms"]), "n_points": int(v["n_points"]),
+            "sample": v.get("sample", "")}
 
 
 def material_rows() -> list:
@@ -45,7 +52,7 @@ def material_rows() -> list:
 
     rows = []
     for name, p in PRESETS.items():
-        cal = _calibration_dict(calibration(name))
+        cal = preset_calibration(p)
         vl, vt = _value(p, "velocity_longitudinal"), _value(p, "velocity_transverse")
         rows.append({"name": name, "formula": _value(p, "formula") or name,
                      "debye_temperature": _value(p, "debye_temperature"),

@@ -81,7 +81,11 @@ def run_predict(args) -> int:
                "scope_notes": [str(n) for n in getattr(band, "notes", []) or []]}
     else:
         model = model_from(args)
-        notes = scope_notes(args.material, temperature=_span(T), boundary_length=model.params.get("boundary.length"))
+        # the boundary length is the user's only where they set it (the default model's own is checked)
+        changed = args.grain_size is not None or any(s.split("=", 1)[0].strip() == "boundary.length"
+                                                     for s in args.set or [])
+        notes = scope_notes(args.material, temperature=_span(T),
+                            boundary_length=model.params.get("boundary.length") if changed else None)
         out = {"source": f"default model of {args.material}", "temperature": jsonable(T),
                "kappa": jsonable(model.kappa(T)), "parameters": model.params, "scope_notes": notes}
     if args.json:
