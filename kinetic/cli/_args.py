@@ -186,9 +186,9 @@ def expand_inputs(items) -> list:
 OPTION_OF = {"ignore_columns": "--ignore-column", "decimal": "--decimal", "delimiter": "--delimiter",
               "encoding": "--encoding", "units": "--unit", "columns": "--column", "kind": "--kind",
               "density": "--density", "heat_capacity": "--heat-capacity", "relative_density": "--relative-density",
-              "porosity_correction": "--porosity-correction", "gruneisen": "--gruneisen",
-              "boundary_length": "--length", "free": "--free"}
-_HINT = re.compile(r"\b(" + "|".join(OPTION_OF) + r")=(\[\s*)?(?:([\"'])(.*?)\3)?(\s*\])?")
+              "porosity_correction": "--porosity-correction"}
+# a hint standing alone in the sentence; not an argument inside a Python call such as f(x, kind="...")
+_HINT = re.compile(r"(?<![(,\w])(?<!, )(" + "|".join(OPTION_OF) + r")=(\[\s*)?(?:([\"'])(.*?)\3)?(\s*\])?")
 
 
 def cli_words(message: str) -> str:
@@ -198,6 +198,8 @@ def cli_words(message: str) -> str:
     'pass --ignore-column time to skip it'
     >>> cli_words('pass decimal=","')
     'pass --decimal ,'
+    >>> cli_words("use load_data(path, kind='lattice')")
+    "use load_data(path, kind='lattice')"
     """
     def repl(m):
         opt = OPTION_OF[m.group(1)]
