@@ -54,16 +54,22 @@ def scope_notes(material, **where) -> list:
     return [str(n) for n in f(material, **{k: v for k, v in where.items() if v is not None})]
 
 
-def model_from(args, material=None):
-    """The default model of ``--material`` with ``--mechanisms``, ``--split``, ``--set`` and ``--grain-size``."""
-    mat = material or getattr(args, "material", None)
-    if not mat:
-        raise ParameterError("--material is required (see 'kinetic materials' for presets)")
-    mechs = None
-    if getattr(args, "mechanisms", None):
-        mechs = [s.strip() for s in args.mechanisms.split(",") if s.strip()]
-    split = True if getattr(args, "split", False) else None
-    model = default_model(mat, mechanisms=mechs, split_branches=split)
+def model_from(args, material=None, *, base=None):
+    """The default model of ``--material`` with ``--mechanisms``, ``--split``, ``--set`` and ``--grain-size``.
+
+    ``base``: start from this model instead (``--set`` and ``--grain-size`` still apply).
+    """
+    if base is not None:
+        model = base
+    else:
+        mat = material or getattr(args, "material", None)
+        if not mat:
+            raise ParameterError("--material is required (see 'kinetic materials' for presets)")
+        mechs = None
+        if getattr(args, "mechanisms", None):
+            mechs = [s.strip() for s in args.mechanisms.split(",") if s.strip()]
+        split = True if getattr(args, "split", False) else None
+        model = default_model(mat, mechanisms=mechs, split_branches=split)
     vals = {}
     for k, v in assignments(getattr(args, "set", None), "--set").items():
         vals[k] = number(v, f"--set {k}")

@@ -177,8 +177,14 @@ def _run_one(args) -> int:
         datasets = [load_data(regular_file(p), **opts) for p in paths]
     if tmin is not None or tmax is not None:
         datasets = [ds.subset(tmin, tmax) for ds in datasets]
-    model = model_from(args, material)
-    free = list(args.free) if args.free else default_free(model)
+    if args.demo and not (args.material or args.mechanisms or args.split):
+        # the demo's own starting model: the mechanisms the invented data were made with,
+        # deliberately wrong start values (kinetic.demo.demo_model)
+        model = model_from(args, base=demo_mod.demo_model())
+        free = list(args.free) if args.free else list(demo_mod.DEFAULT_FREE)
+    else:
+        model = model_from(args, material)
+        free = list(args.free) if args.free else default_free(model)
     bounds = _bounds(args)
     show = (not args.quiet) and progress_wanted(args.progress)
     bar = _StartsBar(show)
