@@ -356,9 +356,11 @@ def fit_many(paths, *, material, free=None, jobs=None, scheduler=None, at=(300.0
         Fitted parameters (default: the default free set of the model).
     jobs : int, optional
         Local processes (default: all cores, at most one per file); 1 fits in
-        this process.
-    scheduler : str, optional
-        Address of a Dask scheduler (``"tcp://host:8786"``): the fits run there.
+        this process (the choice inside a Jupyter kernel, whose threads do not
+        mix well with forked processes).
+    scheduler : str or distributed.Client, optional
+        Address of a Dask scheduler (``"tcp://host:8786"``), or a connected
+        client: the fits run on that cluster.
     at : sequence of float
         Temperatures of the k_L columns [K] (default 300 K).
     progress : bool, callable or None
@@ -415,12 +417,18 @@ def fit_many(paths, *, material, free=None, jobs=None, scheduler=None, at=(300.0
                 _report(bar, i, rows, len(tasks))
         else:
             n = min(jobs or os.cpu_count() or 1, len(tasks))
-            with ProcessPoolExecutor(max_workers=n) as pool:
+            pool = ProcessPoolExecutor(max_workers=n)
+            try:
                 futs = {pool.submit(_fit_task, t): i for i, t in enumerate(tasks)}
                 for f in as_completed(futs):
                     i = futs[f]
                     rows[i] = _result_or_error_row(f, tasks[i])
                     _report(bar, i, rows, len(tasks))
+            except BaseException:
+                # Ctrl-C or a raising callback: drop the queued fits instead of waiting for them
+                pool.shutdown(wait=False, cancel_futures=True)
+                raise
+            pool.shutdown()
     finally:
         if isinstance(bar, _Bar):
             bar.close()
