@@ -1,6 +1,7 @@
 """The kinetic command: exit codes, one-line errors, JSON output, the demo fit."""
 import json
 import math
+import os
 import subprocess
 import sys
 
@@ -185,3 +186,27 @@ def test_materials_agrees_with_the_defaults_module():
             c = r["calibration"]
             assert (c["source"], c["t_min"], c["t_max"], c["rms"], c["n_points"], c["sample"]) == \
                    (ref.source, ref.t_min, ref.t_max, ref.rms, ref.n_points, ref.sample)
+
+
+HEAVY = ("numpy", "scipy", "pint", "matplotlib", "kinetic.fitting", "kinetic.lattice", "kinetic.data")
+
+
+@pytest.mark.parametrize("argv", [["--help"], ["materials"], ["materials", "--json"], ["fit", "--help"]])
+def test_light_commands_load_no_heavy_module(argv):
+    # Speed is measured in benchmarks/bench_cli.py; this guards the reason for it: the command line's
+    # own modules load nothing heavy for these commands. The package root is replaced by a bare
+    # package object so that the check does not depend on how kinetic/__init__.py imports.
+    import kinetic
+
+    code = (
+        "import sys, types\n"
+        f"m = types.ModuleType('kinetic'); m.__path__ = [{os.path.dirname(kinetic.__file__)!r}]\n"
+        "sys.modules['kinetic'] = m\n"
+        "from kinetic.cli import main\n"
+        "import contextlib, io\n"
+        "with contextlib.redirect_stdout(io.StringIO()):\n"
+        f"    rc = main({argv!r})\n"
+        f"print(rc, [h for h in {HEAVY!r} if h in sys.modules])\n"
+    )
+    done = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=False)
+    assert done.stdout.strip() == "0 []", done.stdout + done.stderr
