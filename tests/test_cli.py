@@ -1,6 +1,7 @@
 """The kinetic command: exit codes, one-line errors, JSON output, the demo fit."""
 import json
 import math
+import os
 import subprocess
 import sys
 
@@ -65,7 +66,7 @@ def test_fit_file_save_report_then_predict_and_sweep(capsys, tmp_path):
 
 def test_joint_fit_of_several_files(capsys, tmp_path):
     files = [str(demo.demo_path(f"grain_{i}.csv")) for i in (1, 2)]
-    rc, out, _ = run(capsys, "fit", *files, "--material", "Mg2Si", "--starts", "1", "--quiet", "--json")
+    rc, out, _ = run(capsys, "fit", *files, "--joint", "--material", "Mg2Si", "--starts", "1", "--quiet", "--json")
     assert rc == 0
     d = json.loads(out)
     assert "boundary.length[grain 0.5 um]" in d["values"] and "umklapp.gruneisen" in d["values"]
@@ -135,8 +136,77 @@ def test_parse_numbers():
 def test_console_script_in_a_real_process(tmp_path):
     # the installed entry point (pyproject: kinetic = "kinetic.cli:main"), run as a user would
     ok = subprocess.run([sys.executable, "-m", "kinetic.cli", "fit", "--demo", "--starts", "1", "--json"],
-                        capture_output=True, text=True)
+                        capture_output=True, text=True, check=False)
     assert ok.returncode == 0 and math.isfinite(json.loads(ok.stdout)["chi2"])
     bad = subprocess.run([sys.executable, "-m", "kinetic.cli", "fit", str(tmp_path / "x.csv"), "--material", "Si"],
-                         capture_output=True, text=True)
+                         capture_output=True, text=True, check=False)
     assert bad.returncode == 2 and len(bad.stderr.strip().splitlines()) == 1 and "Traceback" not in bad.stderr
+
+
+def test_materials_lists_each_preset_with_its_calibration_or_none(capsys):
+    from kinetic.presets import PRESETS
+
+    rc, out, _ = run(capsys, "materials", "--json")
+    rows = json.loads(out)
+    assert rc == 0 and [r["name"] for r in rows] == list(PRESETS)
+    for r in rows:
+        assert r["calibrated"] == (r["calibration"] is not None)
+        if r["calibrated"]:
+            c = r["calibration"]
+            assert c["source"] and 0 < c["t_min"] < c["t_max"] and c["rms"] >= 0 and c["n_points"] > 0
+    rc, out, _ = run(capsys, "materials")
+    assert rc == 0 and all(name in out for name in PRESETS) and "presets calibrated" in out
+
+
+def test_preset_calibration_rule():
+    from kinetic.cli.info import preset_calibration
+
+    cal = {"value": {"table": "reference/x.csv", "t_min": 100, "t_max": 800, "rms": 0.05, "n_points": 12,
+                     "sample": "bulk crystal"}, "source": "A. Author, J. (2000)"}
+    model = {"value": {"branches": "avg"}}
+    assert preset_calibration({"calibration": cal, "model": model}) == {
+        "source": "A. Author, J. (2000)", "table": "reference/x.csv", "t_min": 100.0, "t_max": 800.0,
+        "rms": 0.05, "n_points": 12, "sample": "bulk crystal"}
+    assert preset_calibration({"calibration": cal}) is None                 # no calibrated model
+    assert preset_calibration({"model": model}) is None                     # no calibration record
+    assert preset_calibration({"calibration": {"value": None}, "model": model}) is None
+
+
+def test_materials_agrees_with_the_defaults_module():
+    # kinetic materials reads the preset tables directly (speed); kinetic.defaults is the reference
+    defaults = pytest.importorskip("kinetic.defaults")
+    if not hasattr(defaults, "calibration"):
+        pytest.skip("kinetic.defaults.calibration not in this build")
+    from kinetic.cli.info import material_rows
+
+    for r in material_rows():
+        ref = defaults.calibration(r["name"])
+        assert (ref is None) == (r["calibration"] is None), r["name"]
+        if ref is not None:
+            c = r["calibration"]
+            assert (c["source"], c["t_min"], c["t_max"], c["rms"], c["n_points"], c["sample"]) == \
+                   (ref.source, ref.t_min, ref.t_max, ref.rms, ref.n_points, ref.sample)
+
+
+HEAVY = ("numpy", "scipy", "pint", "matplotlib", "kinetic.fitting", "kinetic.lattice", "kinetic.data")
+
+
+@pytest.mark.parametrize("argv", [["--help"], ["materials"], ["materials", "--json"], ["fit", "--help"]])
+def test_light_commands_load_no_heavy_module(argv):
+    # Speed is measured in benchmarks/bench_cli.py; this guards the reason for it: the command line's
+    # own modules load nothing heavy for these commands. The package root is replaced by a bare
+    # package object so that the check does not depend on how kinetic/__init__.py imports.
+    import kinetic
+
+    code = (
+        "import sys, types\n"
+        f"m = types.ModuleType('kinetic'); m.__path__ = [{os.path.dirname(kinetic.__file__)!r}]\n"
+        "sys.modules['kinetic'] = m\n"
+        "from kinetic.cli import main\n"
+        "import contextlib, io\n"
+        "with contextlib.redirect_stdout(io.StringIO()):\n"
+        f"    rc = main({argv!r})\n"
+        f"print(rc, [h for h in {HEAVY!r} if h in sys.modules])\n"
+    )
+    done = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=False)
+    assert done.stdout.strip() == "0 []", done.stdout + done.stderr
