@@ -8,12 +8,9 @@ resistivity (Wiedemann-Franz with the chosen Lorenz number).
 from __future__ import annotations
 
 from collections.abc import Mapping
-from dataclasses import dataclass
-
-import numpy as np
-
+from ..conductivity import LatticeTarget
+from ..conductivity import lattice_target as _chain_target
 from ..data import Dataset
-from ..electronic import lattice_from_total
 from ..errors import DataError, ParameterError
 
 __all__ = [
@@ -84,41 +81,6 @@ def as_dataset(data) -> Dataset:
     )
 
 
-@dataclass(frozen=True)
-class LatticeTarget:
-    """The lattice conductivity a fit uses, after the electronic subtraction.
-
-    Attributes
-    ----------
-    temperature : ndarray
-        [K], the points kept.
-    kappa : ndarray
-        Lattice conductivity to fit [W/m/K].
-    kappa_err : ndarray or None
-        Its known 1-sigma error [W/m/K]: measurement and electronic part in
-        quadrature; None when neither is known.
-    measured_err : ndarray or None
-        The measurement part alone [W/m/K] (the data's kappa_err).
-    kappa_electronic, kappa_electronic_err : ndarray or None
-        Subtracted L sigma T and its error [W/m/K], None if nothing was subtracted.
-    lorenz : ndarray or None
-        Lorenz numbers used [W Ohm/K^2].
-    kept : ndarray of bool
-        Which rows of the dataset are used.
-    notes : tuple of str
-    """
-
-    temperature: np.ndarray
-    kappa: np.ndarray
-    kappa_err: np.ndarray | None
-    measured_err: np.ndarray | None
-    kappa_electronic: np.ndarray | None
-    kappa_electronic_err: np.ndarray | None
-    lorenz: np.ndarray | None
-    kept: np.ndarray
-    notes: tuple = ()
-
-
 def check_electronic(electronic) -> str:
     """The ``electronic=`` choice, checked: "auto" or "none"."""
     if not isinstance(electronic, str) or electronic.lower() not in ELECTRONIC_CHOICES:
@@ -165,40 +127,9 @@ def lattice_target(data, lorenz_method: str = "auto", *, electronic: str = "auto
     ds = as_dataset(data)
     method = check_lorenz_method(lorenz_method)
     electronic = check_electronic(electronic)
-    if method == "auto":
-        method = "spb" if ds.seebeck is not None else "sommerfeld"
-    name = ds.label or "data"
-    T = np.asarray(ds.temperature, dtype=float)
-    k = np.asarray(ds.kappa, dtype=float)
-    err = None if ds.kappa_err is None else np.asarray(ds.kappa_err, dtype=float)
-    notes = []
-    if ds.kind == "lattice":
-        return LatticeTarget(T, k, err, err, None, None, None, np.ones(T.size, bool), tuple(notes))
-    if electronic == "none":
-        notes.append(f"{name}: total conductivity fitted as given (electronic='none': "
-                     "the electronic part was not subtracted)")
-        return LatticeTarget(T, k, err, err, None, None, None, np.ones(T.size, bool), tuple(notes))
-    if not ds.has_electrical:
-        notes.append(f"{name}: total conductivity fitted as lattice (no resistivity given, "
-                     "so the electronic part was not subtracted)")
-        return LatticeTarget(T, k, err, err, None, None, None, np.ones(T.size, bool), tuple(notes))
-    if method in ("spb", "kim") and ds.seebeck is None:
-        raise ParameterError(f"lorenz_method={method!r} needs a Seebeck column in {name}; "
+    if method in ("spb", "kim") and ds.kind == "total" and ds.has_electrical and ds.seebeck is None \
+            and electronic == "auto":
+        raise ParameterError(f"lorenz_method={method!r} needs a Seebeck column in {ds.label or 'data'}; "
                              "use 'sommerfeld' or add S to the data")
-    lt = lattice_from_total(T, k, resistivity=ds.resistivity, seebeck=ds.seebeck, method=method,
-                            kappa_total_err=err, on_nonpositive="keep")
-    kept = ~np.asarray(lt.nonpositive, dtype=bool)
-    if not np.any(kept):
-        raise DataError(f"{name}: kappa_total - L*sigma*T <= 0 at every point (Lorenz method "
-                        f"{method!r}); check the resistivity units")
-    if not np.all(kept):
-        dropped = T[~kept]
-        notes.append(f"{name}: {dropped.size} point(s) dropped where kappa_lattice <= 0 "
-                     f"(T = {', '.join(f'{t:g}' for t in dropped[:5])} K)")
-    notes.append(f"{name}: electronic part L*sigma*T subtracted (Lorenz method {lt.method!r})")
-    kl = np.asarray(lt.kappa_lattice)[kept]
-    kle = np.asarray(lt.kappa_lattice_err)[kept]
-    return LatticeTarget(T[kept], kl, kle, None if err is None else err[kept],
-                         np.asarray(lt.kappa_electronic)[kept], np.asarray(lt.kappa_electronic_err)[kept],
-                         np.asarray(lt.lorenz)[kept], kept, tuple(notes))
-
+    # One conductivity chain: the subtraction itself lives in kinetic.conductivity.
+    return _chain_target(ds, lorenz=method, electronic=electronic == "auto")
