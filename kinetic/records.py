@@ -61,6 +61,7 @@ import scipy
 
 from ._io import AtomicWriteError, atomic_write
 from ._record_schema import SCHEMA, VERSION, read_record
+from ._version import __version__
 from .errors import ParameterError, RecordError
 from .fitting import FitResult
 
@@ -81,15 +82,6 @@ __all__ = [
 
 
 def _package_version() -> str:
-    try:
-        from ._version import __version__
-    except ImportError:  # until kinetic/_version.py exists (the lead adds it)
-        from importlib.metadata import PackageNotFoundError, version
-
-        try:
-            return version("kinetic")
-        except PackageNotFoundError:
-            return "unknown"
     return __version__
 
 
