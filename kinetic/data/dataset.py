@@ -1,0 +1,474 @@
+"""The :class:`Dataset`: one measured sample in SI units, validated, read-only."""
+from __future__ import annotations
+
+import math
+import re
+from dataclasses import dataclass, field
+from typing import Any, Callable, Iterable, Mapping
+
+import numpy as np
+
+from ..errors import DataError, ParameterError, RecordError
+from .columns import _KINDS, _ROLE_ORDER
+from .units import _PINT_SI, _WHAT, SI_UNITS
+
+__all__ = ["Dataset"]
+
+_FORMAT = "kinetic.dataset"
+_VERSION = 1
+
+
+def _fmt(v: float) -> str:
+    return f"{float(v):.6g}"
+
+
+def _where_array(param: str) -> Callable[[int], str]:
+    return lambda i: f"{param}[{i}]"
+
+
+def _readonly(a: np.ndarray | None) -> np.ndarray | None:
+    """A private read-only float copy (the caller's array is never frozen or aliased)."""
+    if a is None:
+        return None
+    a = np.array(a, dtype=float, copy=True, order="C")
+    a.flags.writeable = False
+    return a
+
+
+def _check_values(cols: dict[str, np.ndarray], where: Callable[[str, int], str],
+                  show: Callable[[str, int], str]) -> None:
+    """Physical checks shared by files and arrays (vectorised; the first bad index is named)."""
+    rules = [
+        ("temperature", lambda a: ~(a > 0), "a temperature above absolute zero (0 K)"),
+        ("kappa", lambda a: ~(a > 0), "a positive thermal conductivity"),
+        ("kappa_err", lambda a: ~(a > 0),
+         "a positive uncertainty (a zero uncertainty would give the point infinite weight in a fit)"),
+        ("resistivity", lambda a: ~(a > 0), "a positive electrical resistivity"),
+        ("sigma", lambda a: ~(a > 0), "a positive electrical conductivity"),
+    ]
+    for role in _ROLE_ORDER:
+        a = cols.get(role)
+        if a is None:
+            continue
+        bad = np.flatnonzero(~np.isfinite(a))
+        if bad.size:
+            i = int(bad[0])
+            raise DataError(f"{where(role, i)}: expected a finite number, got {show(role, i)}")
+    for role, test, what in rules:
+        a = cols.get(role)
+        if a is None:
+            continue
+        bad = np.flatnonzero(test(a))
+        if bad.size:
+            i = int(bad[0])
+            raise DataError(f"{where(role, i)}: expected {what}, got {show(role, i)}")
+
+
+def _sort_and_merge(cols: dict[str, np.ndarray], where_row: Callable[[int], str],
+                    notes: list[str], *, file_mode: bool) -> dict[str, np.ndarray]:
+    """Sort rows by temperature; merge identical repeated rows; refuse conflicting repeats."""
+    T = cols["temperature"]
+    n = T.size
+    d = np.diff(T)
+    if n > 1 and np.any(d < 0):
+        order = np.argsort(T, kind="stable")
+        notes.append("rows sorted by temperature (the "
+                     + ("file" if file_mode else "input") + " was not in ascending order)")
+    else:
+        order = None
+    if order is not None:
+        Ts = T[order]
+        d = np.diff(Ts)
+    else:
+        Ts = T
+    dup = np.flatnonzero(d == 0)
+    keep = None
+    if dup.size:
+        names = [r for r in _ROLE_ORDER if cols.get(r) is not None]
+        stack = np.stack([cols[r] if order is None else cols[r][order] for r in names], axis=1)
+        same = np.all(stack[dup] == stack[dup + 1], axis=1)
+        idx = np.arange(n) if order is None else order
+        if not np.all(same):
+            j = int(dup[~same][0])
+            first, second = int(idx[j]), int(idx[j + 1])
+            if first > second:
+                first, second = second, first
+            raise DataError(
+                f"{where_row(second)}: temperature {_fmt(Ts[j])} K repeats "
+                f"{_short_where(where_row(first), file_mode)} with different values; expected "
+                "one row per temperature (remove one of them or average them)")
+        keep = np.ones(n, dtype=bool)
+        keep[dup + 1] = False
+        pairs = [(int(min(idx[j], idx[j + 1])), int(max(idx[j], idx[j + 1]))) for j in dup[:3]]
+        shown = "; ".join(f"{_short_where(where_row(b), file_mode)} repeats "
+                          f"{_short_where(where_row(a), file_mode)}" for a, b in pairs)
+        more = f" and {dup.size - 3} more" if dup.size > 3 else ""
+        notes.append(f"merged {dup.size} repeated identical row{'s' if dup.size > 1 else ''} "
+                     f"({shown}{more}); kept once")
+    out = {}
+    for r, a in cols.items():
+        if a is None:
+            out[r] = None
+            continue
+        b = a if order is None else a[order]
+        if keep is not None:
+            b = b[keep]
+        out[r] = b
+    return out
+
+
+def _short_where(w: str, file_mode: bool) -> str:
+    # "data.csv, line 7, column "T"" -> "line 7"
+    if not file_mode:
+        return w
+    m = re.search(r"line \d+", w)
+    return m.group(0) if m else w
+
+
+@dataclass(frozen=True, eq=False, repr=False)
+class Dataset:
+    """One measured sample: thermal conductivity against temperature, in SI units.
+
+    Build one with :func:`load_data` (from a file), :meth:`from_arrays` or
+    :meth:`from_dict`.  Direct construction validates too.  Arrays are stored
+    read-only.
+
+    Attributes
+    ----------
+    temperature : ndarray
+        Temperatures [K], 1-D, strictly ascending, > 0.
+    kappa : ndarray
+        Thermal conductivity [W m^-1 K^-1], > 0.
+    kappa_err : ndarray or None
+        One-standard-deviation uncertainty of kappa [W m^-1 K^-1], > 0.
+    kind : str
+        "total" (everything measured) or "lattice" (electronic part removed).
+    resistivity : ndarray or None
+        Electrical resistivity [Ohm m], > 0 (see :attr:`sigma`).
+    seebeck : ndarray or None
+        Seebeck coefficient [V/K], either sign.
+    label : str
+        Sample name (e.g. grain size or composition) for legends and fit records.
+    source : str or None
+        Path of the file read, or None.
+    sha256 : str or None
+        Hex SHA-256 of the file's bytes, or None for data not read from a file.
+    notes : tuple of str
+        Comment lines from the file (verbatim, starting with "#") and notes by the
+        loader about what it did (sorting, merging, unit defaults).
+    units : dict
+        Quantity name ("temperature", "kappa", "kappa_err", "resistivity" or
+        "sigma", "seebeck") -> the unit the values were given in, as written.
+    """
+
+    temperature: np.ndarray
+    kappa: np.ndarray
+    kappa_err: np.ndarray | None = None
+    kind: str = "total"
+    resistivity: np.ndarray | None = None
+    seebeck: np.ndarray | None = None
+    label: str = ""
+    source: str | None = None
+    sha256: str | None = None
+    notes: tuple[str, ...] = ()
+    units: dict[str, str] = field(default_factory=dict)
+
+    def __post_init__(self):
+        if self.kind not in _KINDS:
+            raise ParameterError(f'kind must be "total" or "lattice", got {self.kind!r}')
+        if not isinstance(self.label, str):
+            raise ParameterError(f"label must be a string, got {self.label!r}")
+        if self.source is not None and not isinstance(self.source, str):
+            raise ParameterError(f"source must be a string or None, got {self.source!r}")
+        if self.sha256 is not None and not (isinstance(self.sha256, str)
+                                            and re.fullmatch(r"[0-9a-f]{64}", self.sha256)):
+            raise ParameterError(f"sha256 must be 64 lower-case hex digits or None, got {self.sha256!r}")
+        cols = {"temperature": self.temperature, "kappa": self.kappa,
+                "kappa_err": self.kappa_err, "resistivity": self.resistivity,
+                "seebeck": self.seebeck}
+        conv = _as_columns(cols)
+        n = conv["temperature"].size
+        _check_values(conv, lambda r, i: f"{r}[{i}]", lambda r, i: repr(float(conv[r][i])))
+        d = np.diff(conv["temperature"])
+        if n > 1 and not np.all(d > 0):
+            i = int(np.flatnonzero(~(d > 0))[0]) + 1
+            raise DataError(
+                f"temperature[{i}]: expected temperatures in strictly ascending order, got "
+                f"{_fmt(conv['temperature'][i])} K after {_fmt(conv['temperature'][i - 1])} K "
+                "(Dataset.from_arrays sorts and merges for you)")
+        for r, a in conv.items():
+            object.__setattr__(self, r, _readonly(a))
+        object.__setattr__(self, "notes", tuple(str(s) for s in self.notes))
+        object.__setattr__(self, "units", {str(k): str(v) for k, v in dict(self.units).items()})
+
+    # ---- construction -------------------------------------------------------------
+
+    @classmethod
+    def from_arrays(cls, temperature, kappa, *, kappa_err=None, resistivity=None, sigma=None,
+                    seebeck=None, kind: str = "total", label: str = "",
+                    notes: Iterable[str] = ()) -> "Dataset":
+        """Build a Dataset from arrays (or pint quantities), with the loader's checks.
+
+        Parameters
+        ----------
+        temperature : array_like
+            Temperatures [K] (a pint Quantity in any temperature unit is converted).
+        kappa : array_like
+            Thermal conductivity [W m^-1 K^-1].
+        kappa_err : array_like, optional
+            Uncertainty of kappa [W m^-1 K^-1], > 0.
+        resistivity : array_like, optional
+            Electrical resistivity [Ohm m], > 0.  Give this or ``sigma``, not both.
+        sigma : array_like, optional
+            Electrical conductivity [S/m], > 0; stored as resistivity = 1/sigma.
+        seebeck : array_like, optional
+            Seebeck coefficient [V/K].
+        kind : {"total", "lattice"}
+            What kappa contains.
+        label : str
+            Sample name.
+        notes : iterable of str
+            Extra notes to keep.
+
+        Returns
+        -------
+        Dataset
+            Rows sorted by temperature (with a note if they were not); identical
+            repeated rows merged.
+
+        Raises
+        ------
+        DataError
+            A value is not finite, out of range, or arrays differ in length; the
+            message names the parameter and index, e.g. ``kappa[3]``.
+        ParameterError
+            ``kind`` or ``label`` is invalid, or both resistivity and sigma given.
+        """
+        if kind not in _KINDS:
+            raise ParameterError(f'kind must be "total" or "lattice", got {kind!r}')
+        if not isinstance(label, str):
+            raise ParameterError(f"label must be a string, got {label!r}")
+        if resistivity is not None and sigma is not None:
+            raise ParameterError("give resistivity [Ohm m] or sigma [S/m], not both")
+        raw = {"temperature": temperature, "kappa": kappa, "kappa_err": kappa_err,
+               "resistivity": resistivity, "sigma": sigma, "seebeck": seebeck}
+        units: dict[str, str] = {}
+        conv_in = {}
+        for r, v in raw.items():
+            if v is None:
+                continue
+            if hasattr(v, "magnitude") and hasattr(v, "units") and hasattr(v, "to"):
+                units[r] = str(v.units)
+                try:
+                    v = v.to(_PINT_SI[r]).magnitude
+                except Exception as exc:  # pint DimensionalityError and friends
+                    raise DataError(f"{r}: expected {_WHAT[r]}, got a quantity in "
+                                    f"{v.units} ({type(exc).__name__})") from None
+            else:
+                units[r] = SI_UNITS[r]
+            conv_in[r] = v
+        cols = _as_columns(conv_in)
+        shown = {r: a for r, a in cols.items()}
+        _check_values(cols, lambda r, i: f"{r}[{i}]", lambda r, i: repr(float(shown[r][i])))
+        if cols.get("sigma") is not None:
+            cols["resistivity"] = 1.0 / cols.pop("sigma")
+        else:
+            cols.pop("sigma", None)
+        note_list = [str(s) for s in notes]
+        cols = _sort_and_merge(cols, _where_array("temperature"), note_list, file_mode=False)
+        return cls(temperature=cols["temperature"], kappa=cols["kappa"],
+                   kappa_err=cols.get("kappa_err"), kind=kind,
+                   resistivity=cols.get("resistivity"), seebeck=cols.get("seebeck"),
+                   label=label, notes=tuple(note_list), units=units)
+
+    def to_dict(self) -> dict[str, Any]:
+        """A JSON-safe dict (lists of floats; ``json`` round-trips them exactly)."""
+        def lst(a):
+            return None if a is None else [float(x) for x in a.tolist()]
+
+        return {
+            "format": _FORMAT,
+            "version": _VERSION,
+            "label": self.label,
+            "kind": self.kind,
+            "source": self.source,
+            "sha256": self.sha256,
+            "notes": list(self.notes),
+            "units": dict(self.units),
+            "temperature": lst(self.temperature),
+            "kappa": lst(self.kappa),
+            "kappa_err": lst(self.kappa_err),
+            "resistivity": lst(self.resistivity),
+            "seebeck": lst(self.seebeck),
+        }
+
+    @classmethod
+    def from_dict(cls, d: Mapping[str, Any]) -> "Dataset":
+        """Rebuild a Dataset written by :meth:`to_dict` (exact round trip).
+
+        Raises
+        ------
+        RecordError
+            The dict is not a dataset, is from a newer version, or its values are
+            invalid (the message says which key).
+        """
+        if not isinstance(d, Mapping):
+            raise RecordError(f"dataset record must be a dict, got {type(d).__name__}")
+        if d.get("format") != _FORMAT:
+            raise RecordError(f'dataset record: expected format "{_FORMAT}", got {d.get("format")!r}')
+        ver = d.get("version")
+        if not isinstance(ver, int) or isinstance(ver, bool) or ver < 1:
+            raise RecordError(f"dataset record: expected an integer version >= 1, got {ver!r}")
+        if ver > _VERSION:
+            raise RecordError(f"dataset record: version {ver} is newer than this kinetic "
+                              f"understands ({_VERSION}); update kinetic")
+        known = {"format", "version", "label", "kind", "source", "sha256", "notes", "units",
+                 "temperature", "kappa", "kappa_err", "resistivity", "seebeck"}
+        extra = sorted(set(d) - known)
+        if extra:
+            raise RecordError(f"dataset record: unknown key {extra[0]!r}")
+        for key in ("temperature", "kappa"):
+            if key not in d:
+                raise RecordError(f"dataset record: missing key {key!r}")
+
+        def arr(key):
+            v = d.get(key)
+            if v is None:
+                return None
+            if not isinstance(v, (list, tuple)) or not all(
+                    isinstance(x, (int, float)) and not isinstance(x, bool) for x in v):
+                raise RecordError(f"dataset record: {key} must be a list of numbers")
+            return np.array(v, dtype=float)
+
+        notes = d.get("notes", [])
+        units = d.get("units", {})
+        if not isinstance(notes, (list, tuple)) or not all(isinstance(s, str) for s in notes):
+            raise RecordError("dataset record: notes must be a list of strings")
+        if not isinstance(units, Mapping) or not all(
+                isinstance(k, str) and isinstance(v, str) for k, v in units.items()):
+            raise RecordError("dataset record: units must map strings to strings")
+        try:
+            return cls(temperature=arr("temperature"), kappa=arr("kappa"),
+                       kappa_err=arr("kappa_err"), kind=d.get("kind", "total"),
+                       resistivity=arr("resistivity"), seebeck=arr("seebeck"),
+                       label=d.get("label", ""), source=d.get("source"), sha256=d.get("sha256"),
+                       notes=tuple(notes), units=dict(units))
+        except (DataError, ParameterError) as exc:
+            raise RecordError(f"dataset record: {exc}") from None
+
+    # ---- views ----------------------------------------------------------------------
+
+    def __len__(self) -> int:
+        return int(self.temperature.size)
+
+    @property
+    def sigma(self) -> np.ndarray | None:
+        """Electrical conductivity [S/m] = 1/resistivity, or None."""
+        if self.resistivity is None:
+            return None
+        return 1.0 / self.resistivity
+
+    @property
+    def has_electrical(self) -> bool:
+        """True when resistivity (or conductivity) was measured."""
+        return self.resistivity is not None
+
+    def subset(self, tmin: float | None = None, tmax: float | None = None) -> "Dataset":
+        """Rows with tmin <= T <= tmax [K] (either end may be None) as a new Dataset.
+
+        Raises
+        ------
+        ParameterError
+            tmin/tmax not numbers, or tmin > tmax.
+        DataError
+            No row lies in the range.
+        """
+        lo = -math.inf if tmin is None else _scalar("tmin", tmin)
+        hi = math.inf if tmax is None else _scalar("tmax", tmax)
+        if lo > hi:
+            raise ParameterError(f"tmin must not exceed tmax, got tmin={lo!r} K, tmax={hi!r} K")
+        m = (self.temperature >= lo) & (self.temperature <= hi)
+        k = int(m.sum())
+        if k == 0:
+            raise DataError(f"{self.label or 'dataset'}: no rows between {_fmt(lo)} K and "
+                            f"{_fmt(hi)} K (data span {_fmt(self.temperature[0])} to "
+                            f"{_fmt(self.temperature[-1])} K)")
+
+        def cut(a):
+            return None if a is None else a[m]
+
+        rng = " and ".join(s for s in ((f"T >= {_fmt(lo)} K" if tmin is not None else ""),
+                                       (f"T <= {_fmt(hi)} K" if tmax is not None else "")) if s)
+        note = f"subset {rng or 'all temperatures'} ({k} of {len(self)} rows)"
+        return Dataset(temperature=cut(self.temperature), kappa=cut(self.kappa),
+                       kappa_err=cut(self.kappa_err), kind=self.kind,
+                       resistivity=cut(self.resistivity), seebeck=cut(self.seebeck),
+                       label=self.label, source=self.source, sha256=self.sha256,
+                       notes=self.notes + (note,), units=dict(self.units))
+
+    def __eq__(self, other):
+        if not isinstance(other, Dataset):
+            return NotImplemented
+
+        def same(a, b):
+            if a is None or b is None:
+                return a is None and b is None
+            return a.shape == b.shape and bool(np.array_equal(a, b))
+
+        return (all(same(getattr(self, r), getattr(other, r))
+                    for r in ("temperature", "kappa", "kappa_err", "resistivity", "seebeck"))
+                and (self.kind, self.label, self.source, self.sha256, self.notes, self.units)
+                == (other.kind, other.label, other.source, other.sha256, other.notes, other.units))
+
+    __hash__ = None  # type: ignore[assignment]  (holds arrays)
+
+    def __repr__(self) -> str:
+        extras = [name for name, a in (("kappa_err", self.kappa_err),
+                                       ("resistivity", self.resistivity),
+                                       ("seebeck", self.seebeck)) if a is not None]
+        rows = f"{len(self)} row" + ("" if len(self) == 1 else "s")
+        return (f"Dataset(label={self.label!r}, {rows}, T {_fmt(self.temperature[0])}"
+                f"..{_fmt(self.temperature[-1])} K, kind={self.kind!r}"
+                + (", with " + ", ".join(extras) if extras else "") + ")")
+
+
+def _scalar(name: str, v) -> float:
+    try:
+        f = float(v)
+    except (TypeError, ValueError):
+        raise ParameterError(f"{name} must be a number [K], got {v!r}") from None
+    if math.isnan(f):
+        raise ParameterError(f"{name} must be a number [K], got nan")
+    return f
+
+
+def _as_columns(cols: Mapping[str, Any]) -> dict[str, np.ndarray]:
+    """Convert inputs to 1-D float arrays of one length (DataError naming the parameter)."""
+    out: dict[str, np.ndarray] = {}
+    n = None
+    for r in _ROLE_ORDER:
+        if r not in cols or cols[r] is None:
+            continue
+        v = cols[r]
+        try:
+            a = np.asarray(v, dtype=float)
+        except (TypeError, ValueError):
+            raise DataError(f"{r}: expected an array of numbers, got {type(v).__name__}") from None
+        if a.ndim != 1:
+            raise DataError(f"{r}: expected a 1-D array of numbers, got "
+                            + ("a single number" if a.ndim == 0 else f"an array of shape {a.shape}"))
+        if n is None:
+            n = a.size
+            if n == 0:
+                raise DataError(f"{r}: expected at least one value, got an empty array")
+        elif a.size != n:
+            raise DataError(f"{r}: expected {n} values (one per temperature), got {a.size}")
+        out[r] = a
+    if "temperature" not in out or "kappa" not in out:
+        raise DataError("temperature and kappa are both required")
+    return out
+
+
+# --------------------------------------------------------------------------------------
+# Reading files
+# --------------------------------------------------------------------------------------

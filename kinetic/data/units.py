@@ -1,0 +1,200 @@
+"""Units of the columns: SI targets, defaults, lab spellings and their conversion via pint.
+
+pint is imported lazily (building its registry takes about a second); the
+commonest spellings have exact factors here so a typical file needs no registry.
+"""
+from __future__ import annotations
+
+import re
+import warnings
+from functools import lru_cache
+
+import numpy as np
+
+__all__ = ["SI_UNITS", "DEFAULT_UNITS"]
+
+# Column names and units
+# --------------------------------------------------------------------------------------
+
+#: SI unit stored in a :class:`Dataset` for each quantity (pint spelling).
+SI_UNITS: dict[str, str] = {
+    "temperature": "K",
+    "kappa": "W/(m K)",
+    "kappa_err": "W/(m K)",
+    "resistivity": "Ohm m",
+    "sigma": "S/m",
+    "seebeck": "V/K",
+}
+
+#: Unit assumed for a column whose header gives none (see the module docstring;
+#: ``kappa_err`` without a unit takes the kappa column's unit instead).
+DEFAULT_UNITS: dict[str, str] = dict(SI_UNITS)
+
+_PINT_SI = {
+    "temperature": "kelvin",
+    "kappa": "watt / meter / kelvin",
+    "kappa_err": "watt / meter / kelvin",
+    "resistivity": "ohm * meter",
+    "sigma": "siemens / meter",
+    "seebeck": "volt / kelvin",
+}
+
+_WHAT = {
+    "temperature": "a temperature",
+    "kappa": "a thermal conductivity",
+    "kappa_err": "a thermal conductivity (or a relative uncertainty in %)",
+    "resistivity": "an electrical resistivity",
+    "sigma": "an electrical conductivity",
+    "seebeck": "a Seebeck coefficient",
+}
+
+_EXAMPLES = {
+    "temperature": "K, degC or degF",
+    "kappa": "W/(m K) or mW/(cm K)",
+    "kappa_err": "W/(m K), mW/(cm K) or %",
+    "resistivity": "Ohm m, uOhm cm or mOhm cm",
+    "sigma": "S/m or S/cm",
+    "seebeck": "V/K or uV/K",
+}
+
+
+@lru_cache(maxsize=1)
+def _ureg():
+    import pint  # imported lazily: building the registry takes a while
+
+    return pint.UnitRegistry()
+
+
+@lru_cache(maxsize=256)
+def _target_dims(role: str):
+    return _ureg().parse_expression(_PINT_SI[role]).dimensionality
+
+
+_SUPERSCRIPTS = str.maketrans({"⁻": "-", "⁰": "0", "¹": "1", "²": "2", "³": "3", "⁴": "4",
+                               "·": " ", "⋅": " ", "×": "*", "Ω": "ohm", "−": "-"})
+_TEMPERATURE_WORDS = {
+    "c": "degC", "°c": "degC", "deg c": "degC", "degc": "degC", "° c": "degC",
+    "celsius": "degC", "centigrade": "degC", "oc": "degC",
+    "f": "degF", "°f": "degF", "deg f": "degF", "degf": "degF", "° f": "degF",
+    "fahrenheit": "degF", "k": "K", "kelvin": "K", "°k": "K",
+}
+
+
+def _unit_candidates(unit: str, role: str) -> list[tuple[str, bool]]:
+    """Spellings to try for a header unit, most literal first.
+
+    Returns (pint string, is_reinterpretation).  A reinterpretation is used
+    only when it gives the right dimension and the literal reading does not.
+    """
+    u = unit.strip()
+    out = []
+    if role == "temperature" and u.lower() in _TEMPERATURE_WORDS:
+        # a bare "C" (coulomb) or "F" (farad) in a temperature column means degC/degF
+        out.append((_TEMPERATURE_WORDS[u.lower()], u.lower() in ("c", "f")))
+    base = re.sub(r"(?i)ohm", "ohm", u.translate(_SUPERSCRIPTS))     # "uOhm", "Ω" -> "uohm", "ohm"
+    base = re.sub(r"ohm(?=[A-Za-zµμ])", "ohm ", base).strip()          # "µΩcm" -> "µohm cm"
+    out.append((base, False))
+    fixed = base
+    # "W m-1 K-1" -> "W m^-1 K^-1" (only after a letter, so 1e-8 is untouched)
+    fixed = re.sub(r"(?<=[A-Za-zµμ])(?<![0-9][eE])(-?\d+)(?![\d.])", r"^\1", fixed)
+    # "ohm-cm" -> "ohm cm"
+    fixed = re.sub(r"(?<=[A-Za-zµμ])-(?=[A-Za-zµμ])", " ", fixed)
+    # "Kelvin", "Watt" -> lower case (two-letter symbols such as mS stay)
+    fixed = re.sub(r"\b[A-Z][a-z]{2,}\b", lambda m: m.group(0).lower(), fixed)
+    if fixed != base:
+        out.append((fixed, True))
+    if role in ("kappa", "kappa_err"):
+        # "W/mK", "mW/cmK", "W/(mK)": per metre-kelvin, not per millikelvin
+        mk = re.sub(r"/\(?\s*(c?m|mm)\s*K\s*\)?(?![A-Za-z])", r"/(\1*K)", fixed)
+        if mk != fixed:
+            out.append((mk, True))
+    return out
+
+
+class _UnitProblem(Exception):
+    def __init__(self, kind: str, detail: str = ""):
+        super().__init__(kind)
+        self.kind = kind  # "unknown" or "dimension" or "offset"
+        self.detail = detail
+
+
+# The commonest spellings with their exact SI factors (SI prefixes), so that
+# reading a typical file does not need to build a pint registry (about a
+# second).  tests/test_data.py checks every entry against pint.
+_COMMON_UNITS: dict[tuple[str, str], float] = {}
+for _role, _table in {
+    "temperature": {"K": 1.0, "kelvin": 1.0},
+    "kappa": {"W/(m K)": 1.0, "W/(m*K)": 1.0, "W/m/K": 1.0, "W m^-1 K^-1": 1.0,
+              "mW/(cm K)": 0.1, "mW/(cm*K)": 0.1, "W/(cm K)": 100.0},
+    "resistivity": {"Ohm m": 1.0, "ohm m": 1.0, "ohm*m": 1.0, "uOhm cm": 1e-8, "uohm cm": 1e-8,
+                    "µΩ cm": 1e-8, "mOhm cm": 1e-5, "mohm cm": 1e-5, "Ohm cm": 1e-2,
+                    "ohm cm": 1e-2},
+    "sigma": {"S/m": 1.0, "S/cm": 100.0},
+    "seebeck": {"V/K": 1.0, "uV/K": 1e-6, "µV/K": 1e-6, "mV/K": 1e-3},
+}.items():
+    for _u, _f in _table.items():
+        _COMMON_UNITS[(_role, _u)] = _f
+        if _role == "kappa":
+            _COMMON_UNITS[("kappa_err", _u)] = _f
+
+
+@lru_cache(maxsize=512)
+def _resolve_unit(unit: str, role: str) -> tuple[str, float, str, bool]:
+    """Parse a unit for a quantity.
+
+    Returns (pint spelling, scale factor to SI, mode, reinterpreted) with mode
+    "scale" (multiply by the factor), "offset" (convert with pint, e.g. degC)
+    or "relative" (a dimensionless uncertainty: multiply by factor * kappa).
+    Raises _UnitProblem.
+    """
+    common = _COMMON_UNITS.get((role, unit.strip()))
+    if common is not None:
+        return unit.strip(), common, "scale", False
+    ureg = _ureg()
+    first_problem: _UnitProblem | None = None
+    for spelling, reinterpreted in _unit_candidates(unit, role):
+        try:
+            if not spelling.strip():
+                raise _UnitProblem("unknown")
+            with warnings.catch_warnings():
+                warnings.simplefilter("ignore")
+                q = ureg.parse_expression(spelling)
+            if not hasattr(q, "dimensionality"):
+                q = ureg.Quantity(q, "dimensionless")
+        except _UnitProblem as exc:
+            first_problem = first_problem or exc
+            continue
+        except Exception as exc:  # pint raises many kinds (undefined, syntax, offset calculus)
+            kind = "offset" if type(exc).__name__ == "OffsetUnitCalculusError" else "unknown"
+            first_problem = first_problem or _UnitProblem(kind)
+            continue
+        dims = q.dimensionality
+        if role == "kappa_err" and dims == ureg.parse_expression("1").dimensionality:
+            return spelling, float(q.to("dimensionless").magnitude), "relative", reinterpreted
+        if dims != _target_dims(role):
+            first_problem = first_problem or _UnitProblem("dimension", str(dims))
+            continue
+        target = _PINT_SI[role]
+        zero = ureg.Quantity(0.0, q.units).to(target).magnitude
+        if zero != 0.0:
+            if q.magnitude != 1:
+                first_problem = first_problem or _UnitProblem("offset")
+                continue
+            return spelling, 1.0, "offset", reinterpreted
+        factor = float(ureg.Quantity(float(q.magnitude), q.units).to(target).magnitude)
+        return spelling, factor, "scale", reinterpreted
+    assert first_problem is not None
+    raise first_problem
+
+
+def _to_si(values: np.ndarray, spelling: str, factor: float, mode: str, role: str) -> np.ndarray:
+    if mode == "offset":
+        ureg = _ureg()
+        return np.asarray(ureg.Quantity(values, spelling).to(_PINT_SI[role]).magnitude, dtype=float)
+    if factor == 1.0:
+        return values
+    return values * factor
+
+
+# --------------------------------------------------------------------------------------
+# The Dataset
