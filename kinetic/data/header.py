@@ -7,6 +7,7 @@ from typing import Any, Callable, Mapping
 
 from ..errors import DataError
 from .columns import _SHORT, COLUMN_ALIASES, _norm_name
+from .options import suggest
 
 _NUM_RE = re.compile(r"[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?")
 _NONFINITE_RE = re.compile(r"[+-]?(?:nan|inf|infinity)(?:\(.*\))?", re.IGNORECASE)
@@ -82,25 +83,39 @@ def _detect_delimiter(header: str) -> str | None:
 
 
 def _name_and_unit(fieldtext: str, lookup: Callable[[str], Any]) -> tuple[str, str | None]:
+    """Split a header field into (name, unit); unit None when none is written.
+
+    Forms: ``kappa [W/(m K)]``, ``kappa (W m-1 K-1)``, ``kappa / (W/m/K)``,
+    ``kappa/(W/(m K))``, ``T/K``.  A name followed by "/" and nothing else
+    (``kappa/``) raises ValueError: the unit it announces is missing.
+    """
     f = fieldtext.strip()
     if f.count("[") != f.count("]"):
         raise ValueError('unbalanced "[" and "]" around the unit')
     m = re.fullmatch(r"(.*?)\s*\[(.*)\]", f)
     if m:
-        return m.group(1).strip(), m.group(2).strip()
+        return _strip_slash(m.group(1)), m.group(2).strip()
     if f.count("(") != f.count(")"):
         raise ValueError('unbalanced "(" and ")" around the unit')
     m = re.fullmatch(r"(.*?)\s*\((.*)\)", f)
-    if m and m.group(1).strip():
-        name, inner = m.group(1).strip(), m.group(2).strip()
+    if m and _strip_slash(m.group(1)):
+        name, inner = _strip_slash(m.group(1)), m.group(2).strip()
         if lookup(name + "_" + inner) is not None:   # "kappa (lattice)" is a name
             return f, None
         return name, inner
     if "/" in f:
         name, unit = f.split("/", 1)
         if lookup(name.strip()) is not None:
+            if not unit.strip():
+                raise ValueError('"/" but no unit after it')
             return name.strip(), unit.strip()
     return f, None
+
+
+def _strip_slash(name: str) -> str:
+    """``"kappa /"`` -> ``"kappa"`` (the quantity-over-unit form of a header)."""
+    n = name.strip()
+    return n[:-1].rstrip() if n.endswith("/") else n
 
 
 def _first_data_line_has(text: str, pos: int, ch: str) -> bool:
@@ -155,6 +170,10 @@ def _parse_header(line: str, hdr: _Header, delim: str | None, columns: Mapping[s
             name, unit = _name_and_unit(f, lookup)
         except ValueError as exc:
             hdr.names[i] = f
+            if str(exc).startswith('"/"'):
+                raise DataError(f'{hdr.where(i)}: {exc}; expected a unit, e.g. "kappa / (W/m/K)", '
+                                "or the name alone to use the default unit of the format guide "
+                                "(W/(m K) for kappa, K for T)") from None
             raise DataError(f'{hdr.where(i)}: {exc}; expected e.g. "kappa [W/(m K)]"') from None
         hdr.names[i] = name or f
         if unit is not None and unit.strip() == "":
@@ -171,8 +190,8 @@ def _parse_header(line: str, hdr: _Header, delim: str | None, columns: Mapping[s
                     "; lines before the header must start with '#'")
             raise DataError(
                 f'{hdr.where(i)}: unknown column; expected one of T, kappa, kappa_lattice, '
-                f'kappa_err, rho, sigma, S (or an alias), or pass '
-                f'ignore_columns=["{name}"]{hint}')
+                f'kappa_err, rho, sigma, S, diffusivity, density, cp (or an alias), or skip it '
+                f'with {suggest("ignore_columns", name)}{hint}')
         role, kind = hit
         if role == "kappa":
             hdr.kind_from_name = kind
@@ -185,7 +204,8 @@ def _parse_header(line: str, hdr: _Header, delim: str | None, columns: Mapping[s
             what = {"resistivity": "electrical", "sigma": "electrical"}.get(role, _SHORT[role])
             raise DataError(
                 f'{hdr.where(i)}: a second {what} column (column "{hdr.names[other]}" already '
-                f'is one); expected each quantity once (use ignore_columns to drop one)')
+                f'is one); expected each quantity once (skip one with '
+                f'{suggest("ignore_columns", hdr.names[i])})')
         seen[role] = i
         hdr.roles[i] = role
     for need in ("temperature", "kappa"):

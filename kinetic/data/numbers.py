@@ -10,6 +10,7 @@ import numpy as np
 
 from ..errors import DataError
 from .header import _DELIMS, _NONFINITE_RE, _NUM_RE, _Header
+from .options import suggest
 
 
 class _FastFail(Exception):
@@ -99,7 +100,7 @@ class _Slow:
         if "," in t:
             if self.decimal == ".":
                 raise DataError(f"{self.where(line, col)}: decimal comma in {t!r}; use a decimal "
-                                'point (or pass decimal=",")')
+                                f'point (or read commas as decimal marks: {suggest("decimal", ",")})')
             if self.decimal is None and self.first_point is not None:
                 raise DataError(
                     f"{self.where(line, col)}: decimal comma in {t!r} but line "

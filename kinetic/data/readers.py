@@ -4,6 +4,7 @@ from __future__ import annotations
 import hashlib
 import os
 import re
+import stat
 from pathlib import Path
 from typing import Iterable, Mapping
 
@@ -21,14 +22,14 @@ from .header import (
     _parse_header,
 )
 from .numbers import _BISECT_ROWS, _FastFail, _raise_first_bad_row, _row_lines, _Slow
+from .options import suggest
 from .text import _decode
 from .units import (
-    _EXAMPLES,
-    _WHAT,
     DEFAULT_UNITS,
     SI_UNITS,
     _resolve_unit,
     _to_si,
+    _unit_message,
     _UnitProblem,
 )
 
@@ -53,6 +54,27 @@ def _resolve_columns(columns: Mapping[str, str] | None) -> dict[str, tuple[str, 
                                  '"T", "kappa", "kappa_lattice", "kappa_err", "rho", "sigma", "S"')
         out[_norm_name(str(k))] = target
     return out
+
+
+# "1,000" or "12,500,000": a thousands separator, or a decimal comma with three
+# decimals; either reading is possible, so the loader refuses to guess.
+_THOUSANDS_RE = re.compile(r"(?<![\d,.])[+-]?[1-9]\d{0,2}(?:,\d{3})+(?![\d,.])")
+
+
+def _refuse_thousands(data: str, hdr: _Header, delim: str | None, line_of) -> None:
+    """Raise DataError at the first number that may carry thousands separators."""
+    m = _THOUSANDS_RE.search(data)
+    if m is None:
+        return
+    row = data.count("\n", 0, m.start())
+    start = data.rfind("\n", 0, m.start()) + 1
+    prefix = data[start:m.start()]
+    col = len(prefix.split()) if delim is None else prefix.count(delim)
+    col = min(col, len(hdr.names) - 1)
+    raise DataError(
+        f'{hdr.file}, line {line_of(row)}, column "{hdr.names[col]}": {m.group(0)!r} may hold a '
+        "thousands separator or a decimal comma; expected numbers without thousands "
+        f'separators (or, if the commas are decimal marks, {suggest("decimal", ",")})')
 
 
 def _read_table(raw: bytes, name: str, *, label, kind, delimiter, decimal, encoding, units,
@@ -83,6 +105,7 @@ def _read_table(raw: bytes, name: str, *, label, kind, delimiter, decimal, encod
                 raise ParameterError(f"units[{k!r}] must be a unit string, got {v!r}")
             unit_overrides[hit[0]] = v
 
+    _check_size(raw, name)
     notes: list[str] = []
     sha = hashlib.sha256(raw).hexdigest()
     if not raw.strip(b" \t\r\n\x00\xef\xbb\xbf"):
@@ -179,6 +202,9 @@ def _read_table(raw: bytes, name: str, *, label, kind, delimiter, decimal, encod
     fast_data, ok = data, True
     if delim != ",":
         has_comma, has_point = "," in data, "." in data
+        if has_comma and decimal is None:
+            _refuse_thousands(data, hdr, delim, lambda j: int(
+                (first_line + j) if not gaps else _row_lines(body, first_line)[j]))
         if decimal == ".":
             ok = not has_comma
         elif has_comma or decimal == ",":
@@ -248,14 +274,7 @@ def _read_table(raw: bytes, name: str, *, label, kind, delimiter, decimal, encod
         try:
             spelling, factor, mode, reinterpreted = _resolve_unit(unit, role)
         except _UnitProblem as exc:
-            if exc.kind == "unknown":
-                msg = f'unknown unit "{unit}"; expected a unit such as {_EXAMPLES[role]}'
-            elif exc.kind == "offset":
-                msg = (f'unit "{unit}" scales an offset unit, which is ambiguous; expected a '
-                       f"plain unit such as {_EXAMPLES[role]}")
-            else:
-                msg = (f'unit "{unit}" is not {_WHAT[role]} (its dimension is {exc.detail}); '
-                       f"expected a unit such as {_EXAMPLES[role]}")
+            msg = _unit_message(unit, role, exc)
             if where_h.startswith("units["):
                 raise ParameterError(f"{where_h}: {msg}") from None
             raise DataError(f"{where_h}: {msg}") from None
@@ -311,7 +330,7 @@ def _read_table(raw: bytes, name: str, *, label, kind, delimiter, decimal, encod
     final_kind = from_name or kind or meta_kind or "total"
     if kind is None and from_name is None and meta_kind is None:
         notes.append(f'column "{hdr.kappa_col_name}" taken as total thermal conductivity '
-                     '(pass kind="lattice" if the electronic part is already removed)')
+                     f'({suggest("kind", "lattice")} if the electronic part is already removed)')
     final_label = label if label is not None else (meta_label or Path(name).stem)
     all_notes = tuple(c for _, c in comments) + tuple(notes)
     return Dataset(temperature=si["temperature"], kappa=si["kappa"],
@@ -319,6 +338,68 @@ def _read_table(raw: bytes, name: str, *, label, kind, delimiter, decimal, encod
                    resistivity=si.get("resistivity"), seebeck=si.get("seebeck"),
                    label=final_label, source=source, sha256=sha, notes=all_notes,
                    units=unit_record)
+
+
+#: Largest data file read [bytes].  A measured table is a few kB; a million
+#: rows of four columns is about 18 MB.  The limit keeps every read bounded:
+#: the vectorised pass reads 10 MB in well under a second.
+MAX_FILE_BYTES = 32_000_000
+#: Longest line read [bytes]; a header of a few hundred columns fits easily.
+MAX_LINE_BYTES = 10_000
+
+
+def _read_regular_file(path: Path, name: str) -> bytes:
+    """The bytes of a regular file, refusing anything else at once (before opening)."""
+    try:
+        st = os.stat(path)
+    except FileNotFoundError:
+        raise DataError(f"{name}: no such file; expected the path of a data table") from None
+    except PermissionError:
+        raise DataError(f"{name}: permission denied; expected a readable data file") from None
+    except OSError as exc:
+        raise DataError(f"{name}: cannot be read ({exc.strerror or exc}); expected a readable "
+                        "data file") from None
+    if stat.S_ISDIR(st.st_mode):
+        raise DataError(f"{name}: is a folder; expected the path of a data file "
+                        "(load_series reads every table in a folder)")
+    if not stat.S_ISREG(st.st_mode):
+        what = ("a named pipe (FIFO)" if stat.S_ISFIFO(st.st_mode) else
+                "a device" if stat.S_ISCHR(st.st_mode) or stat.S_ISBLK(st.st_mode) else
+                "a socket" if stat.S_ISSOCK(st.st_mode) else "not a regular file")
+        raise DataError(f"{name}: is {what}; expected a regular data file")
+    if st.st_size > MAX_FILE_BYTES:
+        raise DataError(f"{name}: {st.st_size} bytes is more than the {MAX_FILE_BYTES} bytes a "
+                        "data table may have; expected a table of measured points (split it)")
+    try:
+        with open(path, "rb") as fh:
+            raw = fh.read(MAX_FILE_BYTES + 1)
+    except PermissionError:
+        raise DataError(f"{name}: permission denied; expected a readable data file") from None
+    except OSError as exc:
+        raise DataError(f"{name}: cannot be read ({exc.strerror or exc}); expected a readable "
+                        "data file") from None
+    if len(raw) > MAX_FILE_BYTES:   # the file grew while being read
+        raise DataError(f"{name}: more than the {MAX_FILE_BYTES} bytes a data table may have; "
+                        "expected a table of measured points (split it)")
+    return raw
+
+
+def _check_size(raw: bytes, name: str) -> None:
+    """Refuse contents over the size or line-length limits (bounded work: numpy on bytes)."""
+    if len(raw) > MAX_FILE_BYTES:
+        raise DataError(f"{name}: {len(raw)} bytes is more than the {MAX_FILE_BYTES} bytes a "
+                        "data table may have; expected a table of measured points (split it)")
+    if len(raw) <= MAX_LINE_BYTES:
+        return
+    ends = np.flatnonzero(np.frombuffer(raw, dtype=np.uint8) == 10)
+    bounds = np.concatenate(([-1], ends, [len(raw)]))
+    lengths = np.diff(bounds) - 1
+    long = np.flatnonzero(lengths > MAX_LINE_BYTES)
+    if long.size:
+        i = int(long[0])
+        raise DataError(f"{name}, line {i + 1}: {int(lengths[i])} bytes is longer than the "
+                        f"{MAX_LINE_BYTES} bytes a line may have; expected one row of a table "
+                        "per line")
 
 
 def load_data(source, *, label: str | None = None, kind: str | None = None,
@@ -372,21 +453,7 @@ def load_data(source, *, label: str | None = None, kind: str | None = None,
                              f"{type(source).__name__} (use parse_data for file contents)")
     path = Path(source)
     name = os.fspath(source)
-    try:
-        raw = path.read_bytes()
-    except FileNotFoundError:
-        raise DataError(f"{name}: no such file; expected the path of a data table") from None
-    except IsADirectoryError:
-        raise DataError(f"{name}: is a folder; expected the path of a data file "
-                        "(load_series reads every table in a folder)") from None
-    except PermissionError:
-        if path.is_dir():
-            raise DataError(f"{name}: is a folder; expected the path of a data file "
-                            "(load_series reads every table in a folder)") from None
-        raise DataError(f"{name}: permission denied; expected a readable data file") from None
-    except OSError as exc:
-        raise DataError(f"{name}: cannot be read ({exc.strerror or exc}); expected a readable "
-                        "data file") from None
+    raw = _read_regular_file(path, name)
     return _read_table(raw, name, label=label, kind=kind, delimiter=delimiter, decimal=decimal,
                        encoding=encoding, units=units, columns=columns,
                        ignore_columns=ignore_columns, source=str(path))

@@ -5,6 +5,7 @@ commonest spellings have exact factors here so a typical file needs no registry.
 """
 from __future__ import annotations
 
+import math
 import re
 import warnings
 from functools import lru_cache
@@ -71,7 +72,8 @@ def _target_dims(role: str):
 
 
 _SUPERSCRIPTS = str.maketrans({"⁻": "-", "⁰": "0", "¹": "1", "²": "2", "³": "3", "⁴": "4",
-                               "·": " ", "⋅": " ", "×": "*", "Ω": "ohm", "−": "-"})
+                               "·": " ", "⋅": " ", "×": "*", "Ω": "ohm", "−": "-",
+                               "℃": "°C", "℉": "°F", "\u212a": "K"})
 _TEMPERATURE_WORDS = {
     "c": "degC", "°c": "degC", "deg c": "degC", "degc": "degC", "° c": "degC",
     "celsius": "degC", "centigrade": "degC", "oc": "degC",
@@ -86,7 +88,7 @@ def _unit_candidates(unit: str, role: str) -> list[tuple[str, bool]]:
     Returns (pint string, is_reinterpretation).  A reinterpretation is used
     only when it gives the right dimension and the literal reading does not.
     """
-    u = unit.strip()
+    u = unit.strip().translate(_SUPERSCRIPTS)
     out = []
     if role == "temperature" and u.lower() in _TEMPERATURE_WORDS:
         # a bare "C" (coulomb) or "F" (farad) in a temperature column means degC/degF
@@ -103,7 +105,18 @@ def _unit_candidates(unit: str, role: str) -> list[tuple[str, bool]]:
     fixed = re.sub(r"\b[A-Z][a-z]{2,}\b", lambda m: m.group(0).lower(), fixed)
     if fixed != base:
         out.append((fixed, True))
+    if role != "temperature":
+        # "W/(m °C)", "uV/°C": a temperature DIFFERENCE, 1 W/(m °C) = 1 W/(m K)
+        delta = re.sub(r"°\s*C\b|\bdeg\s*C\b|\bdegC\b|\bcelsius\b", "delta_degC", fixed)
+        delta = re.sub(r"°\s*F\b|\bdeg\s*F\b|\bdegF\b|\bfahrenheit\b", "delta_degF", delta)
+        if delta != fixed:
+            out.append((delta, True))
+            fixed = delta
     if role in ("kappa", "kappa_err"):
+        # "Wm-1K-1", "mWcm-1K-1": the compact form of W m^-1 K^-1
+        m = re.fullmatch(r"(m?W)\s*(c?m)\^?-1\s*(?:K|delta_degC)\^?-1", fixed.replace(" ", ""))
+        if m:
+            out.append((f"{m.group(1)}/({m.group(2)}*K)", True))
         # "W/mK", "mW/cmK", "W/(mK)": per metre-kelvin, not per millikelvin
         mk = re.sub(r"/\(?\s*(c?m|mm)\s*K\s*\)?(?![A-Za-z])", r"/(\1*K)", fixed)
         if mk != fixed:
@@ -114,7 +127,7 @@ def _unit_candidates(unit: str, role: str) -> list[tuple[str, bool]]:
 class _UnitProblem(Exception):
     def __init__(self, kind: str, detail: str = ""):
         super().__init__(kind)
-        self.kind = kind  # "unknown" or "dimension" or "offset"
+        self.kind = kind  # "unknown", "syntax", "dimension" or "offset"
         self.detail = detail
 
 
@@ -138,6 +151,51 @@ for _role, _table in {
             _COMMON_UNITS[("kappa_err", _u)] = _f
 
 
+#: Longest unit string read from a header [characters].  Real units are short
+#: ("mW/(cm K)" has 9); a longer one is refused before pint sees it.
+MAX_UNIT_CHARS = 40
+#: Largest magnitude of an exponent in a unit ("m^-1" has 1, "cm^3" 3).  pint
+#: evaluates ``10^99999999`` exactly as an integer, which takes minutes.
+MAX_UNIT_EXPONENT = 4
+#: Longest run of digits in a unit ("1e-8 Ohm m" has 1).
+MAX_UNIT_DIGITS = 8
+
+_EXPONENT_RE = re.compile(r"(?:\^|\*\*)\s*(\(?)\s*([+-]?)\s*([0-9.]*)")
+
+
+def _check_unit_text(unit: str) -> None:
+    """Refuse, before pint parses it, a unit that is malformed or too complex.
+
+    Raises _UnitProblem("syntax", why).  Bounded work: linear in the length,
+    which is itself capped at :data:`MAX_UNIT_CHARS`.
+    """
+    if len(unit) > MAX_UNIT_CHARS:
+        raise _UnitProblem("syntax", f"longer than {MAX_UNIT_CHARS} characters")
+    depth = 0
+    for ch in unit:
+        if ch in "([":
+            depth += 1
+        elif ch in ")]":
+            depth -= 1
+            if depth < 0:
+                break
+    if depth != 0:
+        raise _UnitProblem("syntax", 'unbalanced "(" and ")"')
+    if re.search(r"\d{%d,}" % (MAX_UNIT_DIGITS + 1), unit):
+        raise _UnitProblem("syntax", f"a number of more than {MAX_UNIT_DIGITS} digits")
+    for m in _EXPONENT_RE.finditer(unit):
+        paren, _sign, digits = m.groups()
+        try:
+            value = float(digits)
+        except ValueError:
+            value = math.inf
+        if paren or value > MAX_UNIT_EXPONENT:
+            raise _UnitProblem("syntax", f"an exponent other than a plain number up to "
+                                         f"{MAX_UNIT_EXPONENT}")
+    if re.search(r"(?:\^|\*\*)\s*[+-]?[0-9.]+\s*(?:\^|\*\*)", unit):
+        raise _UnitProblem("syntax", "a repeated exponent")
+
+
 @lru_cache(maxsize=512)
 def _resolve_unit(unit: str, role: str) -> tuple[str, float, str, bool]:
     """Parse a unit for a quantity.
@@ -150,6 +208,7 @@ def _resolve_unit(unit: str, role: str) -> tuple[str, float, str, bool]:
     common = _COMMON_UNITS.get((role, unit.strip()))
     if common is not None:
         return unit.strip(), common, "scale", False
+    _check_unit_text(unit)
     ureg = _ureg()
     first_problem: _UnitProblem | None = None
     for spelling, reinterpreted in _unit_candidates(unit, role):
@@ -198,3 +257,24 @@ def _to_si(values: np.ndarray, spelling: str, factor: float, mode: str, role: st
 
 # --------------------------------------------------------------------------------------
 # The Dataset
+
+
+def _shown_unit(unit: str) -> str:
+    """A unit as quoted in a message (long ones cut, so a message stays one short line)."""
+    u = unit.strip()
+    return u if len(u) <= MAX_UNIT_CHARS else u[:MAX_UNIT_CHARS] + "..."
+
+
+def _unit_message(unit: str, role: str, exc: _UnitProblem) -> str:
+    """The message for a unit that cannot be read for quantity ``role``."""
+    shown = _shown_unit(unit)
+    if exc.kind == "unknown":
+        return f'unknown unit "{shown}"; expected a unit such as {_EXAMPLES[role]}'
+    if exc.kind == "syntax":
+        return (f'unit "{shown}" cannot be read ({exc.detail}); expected a unit such as '
+                f"{_EXAMPLES[role]}")
+    if exc.kind == "offset":
+        return (f'unit "{shown}" scales an offset unit, which is ambiguous; expected a '
+                f"plain unit such as {_EXAMPLES[role]}")
+    return (f'unit "{shown}" is not {_WHAT[role]} (its dimension is {exc.detail}); '
+            f"expected a unit such as {_EXAMPLES[role]}")
