@@ -33,6 +33,13 @@ def _aliases() -> dict[str, tuple[str, str | None]]:
         "sigma_xx")
     add("seebeck", None, "s", "seebeck", "seebeck_coefficient", "thermopower",
         "thermoelectric_power", "s_xx")
+    # a flash (laser or xenon-lamp) measurement: k = D rho c_p (kinetic.data.diffusivity)
+    add("diffusivity", None, "diffusivity", "d", "thermal_diffusivity", "diff", "a_th")
+    add("diffusivity_err", None, "diffusivity_err", "diffusivity_error", "d_err", "dd",
+        "diffusivity_unc", "u_d")
+    add("density", None, "density", "mass_density", "rho_m", "ρ_m", "dens")
+    add("heat_capacity", None, "cp", "c_p", "heat_capacity", "specific_heat",
+        "specific_heat_capacity", "cp_mass")
     return table
 
 
@@ -43,9 +50,14 @@ COLUMN_ALIASES: dict[str, tuple[str, str | None]] = _aliases()
 
 _KINDS = ("total", "lattice")
 _ROLE_ORDER = ("temperature", "kappa", "kappa_err", "resistivity", "sigma", "seebeck")
+# columns of a flash measurement, kept in the Dataset beside the k computed from them
+_FLASH_ROLES = ("diffusivity", "density", "heat_capacity")
+# every quantity a file column can hold
+_FILE_ROLES = _ROLE_ORDER + ("diffusivity", "diffusivity_err", "density", "heat_capacity")
 # the usual column names, for messages
 _SHORT = {"temperature": "T", "kappa": "kappa", "kappa_err": "kappa_err",
-          "resistivity": "rho", "sigma": "sigma", "seebeck": "S"}
+          "resistivity": "rho", "sigma": "sigma", "seebeck": "S", "diffusivity": "diffusivity",
+          "diffusivity_err": "diffusivity_err", "density": "density", "heat_capacity": "cp"}
 
 
 def _norm_name(name: str) -> str:

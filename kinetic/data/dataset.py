@@ -9,7 +9,7 @@ from typing import Any, Callable, Iterable, Mapping
 import numpy as np
 
 from ..errors import DataError, ParameterError, RecordError
-from .columns import _KINDS, _ROLE_ORDER
+from .columns import _FLASH_ROLES, _KINDS, _ROLE_ORDER
 from .units import _PINT_SI, _WHAT, SI_UNITS
 
 __all__ = ["Dataset"]
@@ -45,8 +45,11 @@ def _check_values(cols: dict[str, np.ndarray], where: Callable[[str, int], str],
          "a positive uncertainty (a zero uncertainty would give the point infinite weight in a fit)"),
         ("resistivity", lambda a: ~(a > 0), "a positive electrical resistivity"),
         ("sigma", lambda a: ~(a > 0), "a positive electrical conductivity"),
+        ("diffusivity", lambda a: ~(a > 0), "a positive thermal diffusivity"),
+        ("density", lambda a: ~(a > 0), "a positive density"),
+        ("heat_capacity", lambda a: ~(a > 0), "a positive heat capacity"),
     ]
-    for role in _ROLE_ORDER:
+    for role in _ROLE_ORDER + _FLASH_ROLES:
         a = cols.get(role)
         if a is None:
             continue
@@ -159,6 +162,21 @@ class Dataset:
     units : dict
         Quantity name ("temperature", "kappa", "kappa_err", "resistivity" or
         "sigma", "seebeck") -> the unit the values were given in, as written.
+    diffusivity : ndarray or None
+        For k from a flash measurement: the thermal diffusivity D [m^2/s].
+    density : ndarray or None
+        The mass density rho used in k = D rho c_p [kg/m^3] (of the sample as
+        measured, before any porosity correction).
+    heat_capacity : ndarray or None
+        The specific heat capacity c_p used [J kg^-1 K^-1].
+    heat_capacity_choice : str or None
+        Where c_p came from: "column", "header", "option" (measured values),
+        "dulong-petit" or "debye" (see :mod:`kinetic.heat_capacity`).
+    relative_density : float or None
+        Density of the pellet over that of the full-density solid, in (0, 1].
+    porosity_correction : str or None
+        The effective-medium relation that corrected kappa to full density
+        (see :mod:`kinetic.porosity`), or None when kappa is that of the sample.
     """
 
     temperature: np.ndarray
@@ -172,6 +190,12 @@ class Dataset:
     sha256: str | None = None
     notes: tuple[str, ...] = ()
     units: dict[str, str] = field(default_factory=dict)
+    diffusivity: np.ndarray | None = None
+    density: np.ndarray | None = None
+    heat_capacity: np.ndarray | None = None
+    heat_capacity_choice: str | None = None
+    relative_density: float | None = None
+    porosity_correction: str | None = None
 
     def __post_init__(self):
         if self.kind not in _KINDS:
@@ -185,7 +209,8 @@ class Dataset:
             raise ParameterError(f"sha256 must be 64 lower-case hex digits or None, got {self.sha256!r}")
         cols = {"temperature": self.temperature, "kappa": self.kappa,
                 "kappa_err": self.kappa_err, "resistivity": self.resistivity,
-                "seebeck": self.seebeck}
+                "seebeck": self.seebeck, "diffusivity": self.diffusivity,
+                "density": self.density, "heat_capacity": self.heat_capacity}
         conv = _as_columns(cols)
         n = conv["temperature"].size
         _check_values(conv, lambda r, i: f"{r}[{i}]", lambda r, i: repr(float(conv[r][i])))
@@ -200,6 +225,15 @@ class Dataset:
             object.__setattr__(self, r, _readonly(a))
         object.__setattr__(self, "notes", tuple(str(s) for s in self.notes))
         object.__setattr__(self, "units", {str(k): str(v) for k, v in dict(self.units).items()})
+        for name in ("heat_capacity_choice", "porosity_correction"):
+            v = getattr(self, name)
+            if v is not None and not isinstance(v, str):
+                raise ParameterError(f"{name} must be a string or None, got {v!r}")
+        rd = self.relative_density
+        if rd is not None:
+            if isinstance(rd, bool) or not isinstance(rd, (int, float)) or not 0.0 < rd <= 1.0:
+                raise ParameterError(f"relative_density must be a number in (0, 1], got {rd!r}")
+            object.__setattr__(self, "relative_density", float(rd))
 
     # ---- construction -------------------------------------------------------------
 
@@ -300,6 +334,16 @@ class Dataset:
             "kappa_err": lst(self.kappa_err),
             "resistivity": lst(self.resistivity),
             "seebeck": lst(self.seebeck),
+            **({} if self.diffusivity is None else {
+                "diffusivity": lst(self.diffusivity),
+                "density": lst(self.density),
+                "heat_capacity": lst(self.heat_capacity),
+                "heat_capacity_choice": self.heat_capacity_choice,
+            }),
+            **({} if self.relative_density is None else {
+                "relative_density": self.relative_density,
+                "porosity_correction": self.porosity_correction,
+            }),
         }
 
     @classmethod
@@ -323,7 +367,9 @@ class Dataset:
             raise RecordError(f"dataset record: version {ver} is newer than this kinetic "
                               f"understands ({_VERSION}); update kinetic")
         known = {"format", "version", "label", "kind", "source", "sha256", "notes", "units",
-                 "temperature", "kappa", "kappa_err", "resistivity", "seebeck"}
+                 "temperature", "kappa", "kappa_err", "resistivity", "seebeck",
+                 "diffusivity", "density", "heat_capacity", "heat_capacity_choice",
+                 "relative_density", "porosity_correction"}
         extra = sorted(set(d) - known)
         if extra:
             raise RecordError(f"dataset record: unknown key {extra[0]!r}")
@@ -352,7 +398,12 @@ class Dataset:
                        kappa_err=arr("kappa_err"), kind=d.get("kind", "total"),
                        resistivity=arr("resistivity"), seebeck=arr("seebeck"),
                        label=d.get("label", ""), source=d.get("source"), sha256=d.get("sha256"),
-                       notes=tuple(notes), units=dict(units))
+                       notes=tuple(notes), units=dict(units),
+                       diffusivity=arr("diffusivity"), density=arr("density"),
+                       heat_capacity=arr("heat_capacity"),
+                       heat_capacity_choice=d.get("heat_capacity_choice"),
+                       relative_density=d.get("relative_density"),
+                       porosity_correction=d.get("porosity_correction"))
         except (DataError, ParameterError) as exc:
             raise RecordError(f"dataset record: {exc}") from None
 
@@ -404,7 +455,12 @@ class Dataset:
                        kappa_err=cut(self.kappa_err), kind=self.kind,
                        resistivity=cut(self.resistivity), seebeck=cut(self.seebeck),
                        label=self.label, source=self.source, sha256=self.sha256,
-                       notes=self.notes + (note,), units=dict(self.units))
+                       notes=self.notes + (note,), units=dict(self.units),
+                       diffusivity=cut(self.diffusivity), density=cut(self.density),
+                       heat_capacity=cut(self.heat_capacity),
+                       heat_capacity_choice=self.heat_capacity_choice,
+                       relative_density=self.relative_density,
+                       porosity_correction=self.porosity_correction)
 
     def __eq__(self, other):
         if not isinstance(other, Dataset):
@@ -416,9 +472,12 @@ class Dataset:
             return a.shape == b.shape and bool(np.array_equal(a, b))
 
         return (all(same(getattr(self, r), getattr(other, r))
-                    for r in ("temperature", "kappa", "kappa_err", "resistivity", "seebeck"))
+                    for r in ("temperature", "kappa", "kappa_err", "resistivity", "seebeck",
+                              "diffusivity", "density", "heat_capacity"))
                 and (self.kind, self.label, self.source, self.sha256, self.notes, self.units)
-                == (other.kind, other.label, other.source, other.sha256, other.notes, other.units))
+                == (other.kind, other.label, other.source, other.sha256, other.notes, other.units)
+                and (self.heat_capacity_choice, self.relative_density, self.porosity_correction)
+                == (other.heat_capacity_choice, other.relative_density, other.porosity_correction))
 
     __hash__ = None  # type: ignore[assignment]  (holds arrays)
 
@@ -446,7 +505,7 @@ def _as_columns(cols: Mapping[str, Any]) -> dict[str, np.ndarray]:
     """Convert inputs to 1-D float arrays of one length (DataError naming the parameter)."""
     out: dict[str, np.ndarray] = {}
     n = None
-    for r in _ROLE_ORDER:
+    for r in _ROLE_ORDER + _FLASH_ROLES:
         if r not in cols or cols[r] is None:
             continue
         v = cols[r]

@@ -12,7 +12,7 @@ from functools import lru_cache
 
 import numpy as np
 
-__all__ = ["SI_UNITS", "DEFAULT_UNITS"]
+__all__ = ["DEFAULT_UNITS", "FLASH_SI_UNITS", "SI_UNITS"]
 
 # Column names and units
 # --------------------------------------------------------------------------------------
@@ -38,6 +38,20 @@ _PINT_SI = {
     "resistivity": "ohm * meter",
     "sigma": "siemens / meter",
     "seebeck": "volt / kelvin",
+    "diffusivity": "meter ** 2 / second",
+    "diffusivity_err": "meter ** 2 / second",
+    "density": "kilogram / meter ** 3",
+    "heat_capacity": "joule / kilogram / kelvin",
+}
+
+#: SI units of the quantities of a flash measurement (no defaults: a number
+#: without its unit is ambiguous by factors of 1e3 to 1e6 here, so the unit
+#: must be written).
+FLASH_SI_UNITS: dict[str, str] = {
+    "diffusivity": "m^2/s",
+    "diffusivity_err": "m^2/s",
+    "density": "kg/m^3",
+    "heat_capacity": "J/(kg K)",
 }
 
 _WHAT = {
@@ -47,6 +61,10 @@ _WHAT = {
     "resistivity": "an electrical resistivity",
     "sigma": "an electrical conductivity",
     "seebeck": "a Seebeck coefficient",
+    "diffusivity": "a thermal diffusivity",
+    "diffusivity_err": "a thermal diffusivity (or a relative uncertainty in %)",
+    "density": "a mass density",
+    "heat_capacity": "a specific heat capacity (per mass)",
 }
 
 _EXAMPLES = {
@@ -56,6 +74,10 @@ _EXAMPLES = {
     "resistivity": "Ohm m, uOhm cm or mOhm cm",
     "sigma": "S/m or S/cm",
     "seebeck": "V/K or uV/K",
+    "diffusivity": "mm^2/s, cm^2/s or m^2/s",
+    "diffusivity_err": "mm^2/s, cm^2/s or %",
+    "density": "g/cm^3 or kg/m^3",
+    "heat_capacity": "J/(g K) or J/(kg K)",
 }
 
 
@@ -144,11 +166,15 @@ for _role, _table in {
                     "ohm cm": 1e-2},
     "sigma": {"S/m": 1.0, "S/cm": 100.0},
     "seebeck": {"V/K": 1.0, "uV/K": 1e-6, "µV/K": 1e-6, "mV/K": 1e-3},
+    "diffusivity": {"mm^2/s": 1e-6, "cm^2/s": 1e-4, "m^2/s": 1.0},
+    "density": {"g/cm^3": 1e3, "kg/m^3": 1.0, "g cm^-3": 1e3},
+    "heat_capacity": {"J/(g K)": 1e3, "J/(kg K)": 1.0, "J/g/K": 1e3, "J/kg/K": 1.0,
+                      "J g^-1 K^-1": 1e3, "J kg^-1 K^-1": 1.0},
 }.items():
     for _u, _f in _table.items():
         _COMMON_UNITS[(_role, _u)] = _f
-        if _role == "kappa":
-            _COMMON_UNITS[("kappa_err", _u)] = _f
+        if _role in ("kappa", "diffusivity"):
+            _COMMON_UNITS[(_role + "_err", _u)] = _f
 
 
 #: Longest unit string read from a header [characters].  Real units are short
@@ -228,7 +254,7 @@ def _resolve_unit(unit: str, role: str) -> tuple[str, float, str, bool]:
             first_problem = first_problem or _UnitProblem(kind)
             continue
         dims = q.dimensionality
-        if role == "kappa_err" and dims == ureg.parse_expression("1").dimensionality:
+        if role in ("kappa_err", "diffusivity_err") and dims == ureg.parse_expression("1").dimensionality:
             return spelling, float(q.to("dimensionless").magnitude), "relative", reinterpreted
         if dims != _target_dims(role):
             first_problem = first_problem or _UnitProblem("dimension", str(dims))
