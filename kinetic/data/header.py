@@ -196,6 +196,8 @@ def _parse_header(line: str, hdr: _Header, delim: str | None, columns: Mapping[s
         if role == "kappa":
             hdr.kind_from_name = kind
             hdr.kappa_col_name = name
+        if role == "diffusivity":
+            hdr.kappa_col_name = name
         if role in seen or (role in ("resistivity", "sigma")
                             and ({"resistivity", "sigma"} & set(seen))):
             other = seen.get(role)
@@ -208,7 +210,27 @@ def _parse_header(line: str, hdr: _Header, delim: str | None, columns: Mapping[s
                 f'{suggest("ignore_columns", hdr.names[i])})')
         seen[role] = i
         hdr.roles[i] = role
-    for need in ("temperature", "kappa"):
+    if "diffusivity" in seen:
+        for other in ("kappa", "kappa_err"):
+            if other in seen:
+                i = seen[other]
+                raise DataError(
+                    f'{hdr.where(i)}: a {_SHORT[other]} column beside the diffusivity column '
+                    f'"{hdr.names[seen["diffusivity"]]}"; expected k from D rho c_p or measured k, '
+                    f'not both (skip one with {suggest("ignore_columns", hdr.names[i])})')
+    else:
+        for flash in ("diffusivity_err", "density", "heat_capacity"):
+            if flash in seen:
+                i = seen[flash]
+                raise DataError(
+                    f'{hdr.where(i)}: a {_SHORT[flash]} column is used only with a diffusivity '
+                    f'column (k = D rho c_p); expected a "diffusivity" column, or skip this one '
+                    f'with {suggest("ignore_columns", hdr.names[i])}')
+        if "temperature" in seen and "kappa" not in seen:
+            raise DataError(f'{hdr.file}, line {hdr.lineno}, column "kappa": missing; expected '
+                            "a column named kappa, kappa_total or kappa_lattice (or a "
+                            '"diffusivity" column with density and heat capacity)')
+    for need in ("temperature",):
         if need not in seen:
             label = "temperature" if need == "temperature" else "kappa"
             expected = "T, temp or temperature" if need == "temperature" else \

@@ -11,8 +11,9 @@ from typing import Iterable, Mapping
 import numpy as np
 
 from ..errors import DataError, ParameterError
+from . import diffusivity as _flash
 from . import numbers as _numbers
-from .columns import _KINDS, _ROLE_ORDER, _SHORT, COLUMN_ALIASES, _norm_name
+from .columns import _FILE_ROLES, _KINDS, _SHORT, COLUMN_ALIASES, _norm_name
 from .dataset import Dataset, _check_values, _fmt, _sort_and_merge
 from .header import (
     _META_RE,
@@ -25,7 +26,10 @@ from .numbers import _BISECT_ROWS, _FastFail, _raise_first_bad_row, _row_lines, 
 from .options import suggest
 from .text import _decode
 from .units import (
+    _EXAMPLES,
+    _WHAT,
     DEFAULT_UNITS,
+    FLASH_SI_UNITS,
     SI_UNITS,
     _resolve_unit,
     _to_si,
@@ -34,6 +38,8 @@ from .units import (
 )
 
 __all__ = ["load_data", "parse_data", "load_series"]
+
+_ALL_SI = {**SI_UNITS, **FLASH_SI_UNITS}
 
 def _check_option(name, value, allowed):
     if value not in allowed:
@@ -78,7 +84,7 @@ def _refuse_thousands(data: str, hdr: _Header, delim: str | None, line_of) -> No
 
 
 def _read_table(raw: bytes, name: str, *, label, kind, delimiter, decimal, encoding, units,
-                columns, ignore_columns, source: str | None) -> Dataset:
+                columns, ignore_columns, source: str | None, flash: dict) -> Dataset:
     _check_option("kind", kind, (None, "total", "lattice"))
     _check_option("decimal", decimal, (None, ".", ","))
     if delimiter in ("whitespace", " "):
@@ -243,7 +249,8 @@ def _read_table(raw: bytes, name: str, *, label, kind, delimiter, decimal, encod
     unit_record: dict[str, str] = {}
     defaulted: set[str] = set()
     relative_err: float | None = None
-    for role in _ROLE_ORDER:
+    relative_d_err: float | None = None
+    for role in _FILE_ROLES:
         if role not in col_of:
             continue
         i = col_of[role]
@@ -266,6 +273,16 @@ def _read_table(raw: bytes, name: str, *, label, kind, delimiter, decimal, encod
                 unit = unit_overrides["kappa"]
                 notes.append(f'column "{hdr.names[i]}" has no unit; read in the kappa '
                              f"column's unit {unit}")
+            elif role == "diffusivity_err" and unit_record.get("diffusivity"):
+                unit = unit_record["diffusivity"]
+                notes.append(f'column "{hdr.names[i]}" has no unit; read in the diffusivity '
+                             f"column's unit {unit}")
+            elif role in FLASH_SI_UNITS:
+                raise DataError(
+                    f"{where_h}: no unit; expected a unit such as {_EXAMPLES[role]} ({_WHAT[role]} "
+                    "without its unit is ambiguous by a factor of 1000 or more), e.g. "
+                    f'"{hdr.names[i]} [{_EXAMPLES[role].split(",")[0]}]" or '
+                    f'{suggest("units", _EXAMPLES[role].split(",")[0], hdr.names[i])}')
             else:
                 unit = DEFAULT_UNITS[role]
                 defaulted.add(role)
@@ -282,6 +299,10 @@ def _read_table(raw: bytes, name: str, *, label, kind, delimiter, decimal, encod
             notes.append(f'unit "{unit}" of column "{hdr.names[i]}" read as {spelling}')
         unit_record[role] = unit.strip()
         shown_unit[role] = unit.strip()
+        if mode == "relative" and role == "diffusivity_err":
+            relative_d_err = factor
+            notes.append(f'column "{hdr.names[i]}" is a relative uncertainty ({unit})')
+            continue
         if mode == "relative":
             relative_err = factor
             notes.append(f'column "{hdr.names[i]}" is a relative uncertainty ({unit}); '
@@ -291,6 +312,8 @@ def _read_table(raw: bytes, name: str, *, label, kind, delimiter, decimal, encod
 
     if relative_err is not None:
         si["kappa_err"] = raw_cols["kappa_err"] * relative_err * si["kappa"]
+    if relative_d_err is not None:
+        si["diffusivity_err"] = raw_cols["diffusivity_err"] * relative_d_err * si["diffusivity"]
 
     def where(role: str, idx: int) -> str:
         return f'{name}, line {int(lines_of()[idx])}, column "{hdr.names[col_of[role]]}"'
@@ -299,8 +322,9 @@ def _read_table(raw: bytes, name: str, *, label, kind, delimiter, decimal, encod
         v = float(raw_cols[role][idx])
         u = shown_unit.get(role, "")
         s = f"{_fmt(v)} {u}".strip()
-        if role in si and u and u != SI_UNITS[role] and si[role][idx] != v:
-            s += f" (= {_fmt(si[role][idx])} {SI_UNITS[role]})"
+        si_unit = _ALL_SI[role]
+        if role in si and u and u != si_unit and si[role][idx] != v:
+            s += f" (= {_fmt(si[role][idx])} {si_unit})"
         if role in defaulted:
             s += " (no unit in the header, so read as " + DEFAULT_UNITS[role] + (
                 '; write e.g. "T [degC]" if it is Celsius)' if role == "temperature" else ")")
@@ -316,6 +340,35 @@ def _read_table(raw: bytes, name: str, *, label, kind, delimiter, decimal, encod
                             'known solid; write the unit in the header, e.g. "S [uV/K]"')
     if "sigma" in si:
         si["resistivity"] = 1.0 / si.pop("sigma")
+    header_values = _flash.flash_header_values(comments, name)
+    choice = None
+    if "diffusivity" in si:
+        d_err = si.pop("diffusivity_err", None)
+        if d_err is not None:
+            bad = np.flatnonzero(~(np.isfinite(d_err) & (d_err > 0)))
+            if bad.size:
+                j = int(bad[0])
+                raise DataError(f'{where("diffusivity_err", j)}: expected a positive uncertainty, '
+                                f"got {show('diffusivity_err', j)}")
+        out = _flash.kappa_from_diffusivity(
+            name=name, temperature=si["temperature"], diffusivity=si["diffusivity"],
+            diffusivity_err=d_err, density_column=si.get("density"),
+            cp_column=si.get("heat_capacity"), header=header_values, col_where=where,
+            density=flash["density"], heat_capacity=flash["heat_capacity"],
+            material=flash["material"], diffusivity_rel_err=flash["diffusivity_rel_err"],
+            density_rel_err=flash["density_rel_err"],
+            heat_capacity_rel_err=flash["heat_capacity_rel_err"])
+        si.update(kappa=out["kappa"], kappa_err=out["kappa_err"], density=out["density"],
+                  heat_capacity=out["heat_capacity"])
+        choice = out["choice"]
+        notes.extend(out["notes"])
+        unit_record["kappa"] = "W/(m K) (from D rho c_p)"
+    else:
+        used = [k for k in ("density", "heat_capacity", "material", "diffusivity_rel_err",
+                            "density_rel_err", "heat_capacity_rel_err") if flash[k] is not None]
+        if used:
+            raise ParameterError(f"{used[0]}= is used only for a file with a diffusivity column "
+                                 f"(k = D rho c_p); {name} has a kappa column")
 
     def where_row(idx: int) -> str:
         return f'{name}, line {int(lines_of()[idx])}, column "{hdr.names[col_of["temperature"]]}"'
@@ -329,15 +382,23 @@ def _read_table(raw: bytes, name: str, *, label, kind, delimiter, decimal, encod
                         f'kind="{kind}" was given; expected them to agree')
     final_kind = from_name or kind or meta_kind or "total"
     if kind is None and from_name is None and meta_kind is None:
-        notes.append(f'column "{hdr.kappa_col_name}" taken as total thermal conductivity '
+        what = "k from column" if "diffusivity" in si else "column"
+        notes.append(f'{what} "{hdr.kappa_col_name}" taken as total thermal conductivity '
                      f'({suggest("kind", "lattice")} if the electronic part is already removed)')
+    por = _flash.porosity_step(name=name, kappa=si["kappa"], kappa_err=si.get("kappa_err"),
+                               relative_density=flash["relative_density"],
+                               relation=flash["porosity_correction"], header=header_values)
+    notes.extend(por["notes"])
     final_label = label if label is not None else (meta_label or Path(name).stem)
     all_notes = tuple(c for _, c in comments) + tuple(notes)
-    return Dataset(temperature=si["temperature"], kappa=si["kappa"],
-                   kappa_err=si.get("kappa_err"), kind=final_kind,
+    return Dataset(temperature=si["temperature"], kappa=por["kappa"],
+                   kappa_err=por["kappa_err"], kind=final_kind,
                    resistivity=si.get("resistivity"), seebeck=si.get("seebeck"),
                    label=final_label, source=source, sha256=sha, notes=all_notes,
-                   units=unit_record)
+                   units=unit_record, diffusivity=si.get("diffusivity"),
+                   density=si.get("density"), heat_capacity=si.get("heat_capacity"),
+                   heat_capacity_choice=choice, relative_density=por["relative_density"],
+                   porosity_correction=por["relation"])
 
 
 #: Largest data file read [bytes].  A measured table is a few kB; a million
@@ -406,7 +467,11 @@ def load_data(source, *, label: str | None = None, kind: str | None = None,
               delimiter: str | None = None, decimal: str | None = None,
               encoding: str | None = None, units: Mapping[str, str] | None = None,
               columns: Mapping[str, str] | None = None,
-              ignore_columns: Iterable[str] = ()) -> Dataset:
+              ignore_columns: Iterable[str] = (), density=None, heat_capacity=None,
+              material: str | None = None, relative_density=None,
+              porosity_correction: str | None = None, diffusivity_rel_err: float | None = None,
+              density_rel_err: float | None = None,
+              heat_capacity_rel_err: float | None = None) -> Dataset:
     """Read a measured thermal-conductivity table into a :class:`Dataset` (SI units).
 
     Parameters
@@ -434,6 +499,27 @@ def load_data(source, *, label: str | None = None, kind: str | None = None,
         Extra column names, e.g. ``{"k_meas": "kappa", "Tsample": "T"}``.
     ignore_columns : iterable of str
         Header names of columns to skip (e.g. ``["time", "field"]``).
+    density : str, float or pint Quantity, optional
+        Density rho for k = D rho c_p of a diffusivity file: text with a unit
+        ("5.2 g/cm^3"), a quantity, or a number in kg/m^3.
+    heat_capacity : str, float or pint Quantity, optional
+        c_p for a diffusivity file: a value ("0.5 J/(g K)", a quantity, a number
+        in J/(kg K)) or a model, "dulong-petit" or "debye" (needs ``material``).
+    material : str, optional
+        Preset name (or formula for Dulong-Petit) for a model heat capacity and
+        for the note comparing the heat-capacity choices.
+    relative_density : float or str, optional
+        Sample density / full density in (0, 1] ("92 %" works).
+    porosity_correction : str, optional
+        Effective-medium relation correcting k to full density, one of
+        :data:`kinetic.porosity.RELATIONS`; None keeps k of the sample.
+    diffusivity_rel_err, density_rel_err, heat_capacity_rel_err : float, optional
+        Relative standard errors of D, rho, c_p (defaults:
+        :data:`kinetic.data.diffusivity.DEFAULT_RELATIVE_ERRORS`).
+
+    The module :mod:`kinetic.data.diffusivity` describes diffusivity files;
+    :mod:`kinetic.data.options` lists the command-line and workbench names of
+    every option.
 
     Returns
     -------
@@ -456,14 +542,24 @@ def load_data(source, *, label: str | None = None, kind: str | None = None,
     raw = _read_regular_file(path, name)
     return _read_table(raw, name, label=label, kind=kind, delimiter=delimiter, decimal=decimal,
                        encoding=encoding, units=units, columns=columns,
-                       ignore_columns=ignore_columns, source=str(path))
+                       ignore_columns=ignore_columns, source=str(path),
+                       flash=dict(density=density, heat_capacity=heat_capacity, material=material,
+                                  relative_density=relative_density,
+                                  porosity_correction=porosity_correction,
+                                  diffusivity_rel_err=diffusivity_rel_err,
+                                  density_rel_err=density_rel_err,
+                                  heat_capacity_rel_err=heat_capacity_rel_err))
 
 
 def parse_data(content: bytes | str, *, name: str = "data", label: str | None = None,
                kind: str | None = None, delimiter: str | None = None,
                decimal: str | None = None, encoding: str | None = None,
                units: Mapping[str, str] | None = None, columns: Mapping[str, str] | None = None,
-               ignore_columns: Iterable[str] = ()) -> Dataset:
+               ignore_columns: Iterable[str] = (), density=None, heat_capacity=None,
+               material: str | None = None, relative_density=None,
+               porosity_correction: str | None = None, diffusivity_rel_err: float | None = None,
+               density_rel_err: float | None = None,
+               heat_capacity_rel_err: float | None = None) -> Dataset:
     """Read a table from its contents (e.g. an uploaded file) instead of a path.
 
     Parameters are those of :func:`load_data`; ``name`` (e.g. the uploaded file's
@@ -486,7 +582,13 @@ def parse_data(content: bytes | str, *, name: str = "data", label: str | None = 
         raise ParameterError(f"name must be a string, got {name!r}")
     return _read_table(raw, name, label=label, kind=kind, delimiter=delimiter, decimal=decimal,
                        encoding=encoding, units=units, columns=columns,
-                       ignore_columns=ignore_columns, source=None)
+                       ignore_columns=ignore_columns, source=None,
+                       flash=dict(density=density, heat_capacity=heat_capacity, material=material,
+                                  relative_density=relative_density,
+                                  porosity_correction=porosity_correction,
+                                  diffusivity_rel_err=diffusivity_rel_err,
+                                  density_rel_err=density_rel_err,
+                                  heat_capacity_rel_err=heat_capacity_rel_err))
 
 
 _SERIES_SUFFIXES = (".csv", ".tsv", ".txt", ".dat")
@@ -504,7 +606,7 @@ def load_series(sources, labels: Iterable[str] | None = None, **options) -> list
         One label per file; default each file's ``# label:`` comment, else its name.
     **options
         Passed to :func:`load_data` (kind, delimiter, decimal, encoding, units,
-        columns, ignore_columns).
+        columns, ignore_columns, and the diffusivity and porosity options).
 
     Returns
     -------
