@@ -9,6 +9,7 @@ from typing import Any, Callable, Iterable, Mapping
 import numpy as np
 
 from ..errors import DataError, ParameterError, RecordError
+from . import diffusivity as _flash
 from .columns import _FLASH_ROLES, _KINDS, _ROLE_ORDER
 from .units import _PINT_SI, _WHAT, SI_UNITS
 
@@ -315,6 +316,101 @@ class Dataset:
                    resistivity=cols.get("resistivity"), seebeck=cols.get("seebeck"),
                    label=label, notes=tuple(note_list), units=units)
 
+    @classmethod
+    def from_diffusivity(cls, temperature, diffusivity, *, density, heat_capacity,
+                         diffusivity_err=None, material: str | None = None,
+                         relative_density=None, porosity_correction: str | None = None,
+                         diffusivity_rel_err: float | None = None,
+                         density_rel_err: float | None = None,
+                         heat_capacity_rel_err: float | None = None, kind: str = "total",
+                         label: str = "", notes: Iterable[str] = ()) -> Dataset:
+        """A Dataset of k = D rho c_p from arrays of a flash measurement.
+
+        The door for arrays that :func:`kinetic.data.load_data` is for files, with
+        the same rules (see :mod:`kinetic.data.diffusivity`).
+
+        Parameters
+        ----------
+        temperature : array_like or pint Quantity
+            Temperatures [K] (a quantity in any temperature unit is converted).
+        diffusivity : array_like or pint Quantity
+            Thermal diffusivity D [m^2/s] (a quantity in mm^2/s etc. is converted).
+        density : float, array_like, str or pint Quantity
+            Density [kg/m^3], e.g. ``"5.2 g/cm^3"`` or a quantity.
+        heat_capacity : float, array_like, str or pint Quantity
+            c_p [J kg^-1 K^-1], or "dulong-petit" / "debye" (needs ``material``).
+        diffusivity_err : array_like or pint Quantity, optional
+            Standard error of D [m^2/s] (else ``diffusivity_rel_err`` or 3 %).
+
+        Other keywords are those of :func:`kinetic.data.load_data`.
+
+        Examples
+        --------
+        >>> import pint
+        >>> u = pint.UnitRegistry()
+        >>> ds = Dataset.from_diffusivity(u.Quantity([300.0, 400.0], "K"),
+        ...                               u.Quantity([4.0, 3.0], "mm^2/s"),
+        ...                               density="2 g/cm^3", heat_capacity="0.5 J/(g K)")
+        >>> ds.kappa.tolist()
+        [4.0, 3.0]
+
+        Raises
+        ------
+        DataError, ParameterError
+            A missing, implausible or non-positive value, naming the parameter.
+        """
+        raw = {"temperature": temperature, "diffusivity": diffusivity,
+               "diffusivity_err": diffusivity_err}
+        conv = {}
+        for r, v in raw.items():
+            if v is None:
+                continue
+            if _is_quantity(v):
+                try:
+                    v = v.to(_PINT_SI[r]).magnitude
+                except Exception as exc:  # noqa: BLE001  pint DimensionalityError and friends
+                    raise DataError(f"{r}: expected {_WHAT[r]}, got a quantity in {v.units} "
+                                    f"({type(exc).__name__})") from None
+            conv[r] = v
+        d_err = conv.pop("diffusivity_err", None)
+        cols = _as_columns({"temperature": conv["temperature"], "kappa": conv["diffusivity"],
+                            "diffusivity": conv["diffusivity"]})
+        T, D = cols["temperature"], cols["diffusivity"]
+        _check_values({"temperature": T, "diffusivity": D}, lambda r, i: f"{r}[{i}]",
+                      lambda r, i: repr(float(cols[r][i])))
+        if d_err is not None:
+            d_err = _as_columns({"temperature": T, "kappa": np.asarray(d_err, float)})["kappa"]
+        dens_col = cp_col = None
+        dens_opt, cp_opt = density, heat_capacity
+        if np.ndim(density) == 1 and not isinstance(density, str):
+            dens_col = np.asarray(density.to(_PINT_SI["density"]).magnitude if
+                                  _is_quantity(density) else density, dtype=float)
+            dens_opt = None
+        if np.ndim(heat_capacity) == 1 and not isinstance(heat_capacity, str):
+            cp_col = np.asarray(heat_capacity.to(_PINT_SI["heat_capacity"]).magnitude if
+                                _is_quantity(heat_capacity) else heat_capacity, dtype=float)
+            cp_opt = None
+        out = _flash.kappa_from_diffusivity(
+            name="from_diffusivity", temperature=T, diffusivity=D, diffusivity_err=d_err,
+            density_column=dens_col, cp_column=cp_col, header={},
+            col_where=lambda r, i: f"{r}[{i}]", density=dens_opt, heat_capacity=cp_opt,
+            material=material, diffusivity_rel_err=diffusivity_rel_err,
+            density_rel_err=density_rel_err, heat_capacity_rel_err=heat_capacity_rel_err)
+        por = _flash.porosity_step(name="from_diffusivity", kappa=out["kappa"],
+                                   kappa_err=out["kappa_err"], relative_density=relative_density,
+                                   relation=porosity_correction, header={})
+        note_list = [str(n) for n in notes] + out["notes"] + por["notes"]
+        cols = {"temperature": T, "kappa": por["kappa"], "kappa_err": por["kappa_err"],
+                "diffusivity": D, "density": out["density"], "heat_capacity": out["heat_capacity"]}
+        cols = _sort_and_merge(cols, _where_array("temperature"), note_list, file_mode=False)
+        return cls(temperature=cols["temperature"], kappa=cols["kappa"],
+                   kappa_err=cols["kappa_err"], kind=kind, label=label, notes=tuple(note_list),
+                   units={"temperature": "K", "kappa": "W/(m K) (from D rho c_p)"},
+                   diffusivity=cols["diffusivity"], density=cols["density"],
+                   heat_capacity=cols["heat_capacity"], heat_capacity_choice=out["choice"],
+                   relative_density=por["relative_density"],
+                   porosity_correction=por["relation"])
+
     def to_dict(self) -> dict[str, Any]:
         """A JSON-safe dict (lists of floats; ``json`` round-trips them exactly)."""
         def lst(a):
@@ -492,6 +588,12 @@ class Dataset:
 
 
 def _scalar(name: str, v) -> float:
+    if _is_quantity(v):
+        try:
+            v = v.to("kelvin").magnitude
+        except Exception as exc:  # noqa: BLE001  pint DimensionalityError and friends
+            raise ParameterError(f"{name} must be a temperature, got a quantity in {v.units} "
+                                 f"({type(exc).__name__})") from None
     try:
         f = float(v)
     except (TypeError, ValueError):
@@ -499,6 +601,10 @@ def _scalar(name: str, v) -> float:
     if math.isnan(f):
         raise ParameterError(f"{name} must be a number [K], got nan")
     return f
+
+
+def _is_quantity(v) -> bool:
+    return hasattr(v, "magnitude") and hasattr(v, "units") and hasattr(v, "to")
 
 
 def _as_columns(cols: Mapping[str, Any]) -> dict[str, np.ndarray]:
