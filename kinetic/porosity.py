@@ -57,7 +57,7 @@ import numpy as np
 from .errors import ParameterError
 
 __all__ = ["RELATIONS", "bruggeman_landauer", "dem", "full_density_kappa", "loeb",
-           "maxwell_eucken_lower", "maxwell_eucken_upper", "ratio"]
+           "maxwell_eucken_lower", "maxwell_eucken_upper", "outside_validity", "ratio"]
 
 
 def _phi(phi) -> np.ndarray:
@@ -132,6 +132,11 @@ def ratio(relation: str, phi):
     return RELATIONS[relation][0](phi)
 
 
+def outside_validity(relation: str, relative_density: float) -> bool:
+    """True when the porosity 1 - relative_density exceeds ``relation``'s validity range."""
+    return (1.0 - float(relative_density)) > RELATIONS[relation][1]
+
+
 def full_density_kappa(kappa, relative_density, *, relation: str = "maxwell-eucken"):
     """k of the full-density solid from k of a pellet, and the correction's uncertainty.
 
@@ -156,7 +161,9 @@ def full_density_kappa(kappa, relative_density, *, relation: str = "maxwell-euck
     ------
     ParameterError
         relative_density outside (0, 1], an unknown relation, or a porosity
-        beyond the chosen relation's range (e.g. phi >= 2/3 for "landauer").
+        where the chosen relation predicts no conduction (phi >= 2/3 for
+        "landauer").  Beyond a relation's validity range but short of that,
+        the value is returned; :func:`outside_validity` says so.
     """
     d = float(relative_density)
     if not 0.0 < d <= 1.0:
@@ -167,10 +174,10 @@ def full_density_kappa(kappa, relative_density, *, relation: str = "maxwell-euck
                              f"got {relation!r}")
     k = np.asarray(kappa, dtype=float)
     f, phi_max, _ = RELATIONS[relation]
-    if phi >= phi_max and not (phi_max >= 1.0):
+    if not f(phi) > 0:
         raise ParameterError(f"porosity {phi:.3g} (relative density {d:.3g}) is beyond the range "
-                             f"of the {relation} relation (porosity < {phi_max:.3g}); choose "
-                             "another relation")
+                             f"of the {relation} relation (porosity < {phi_max:.3g}, where it "
+                             "predicts no conduction at all); choose another relation")
     k_full = k / f(phi)
     others = [g(phi) for name, (g, pmax, _) in RELATIONS.items()
               if name != relation and phi < pmax and g(phi) > 0]

@@ -384,6 +384,10 @@ def porosity_step(*, name: str, kappa: np.ndarray, kappa_err: np.ndarray | None,
     else:
         err = np.sqrt(np.square(kappa_err * factor) + np.square(spread))
     rel_spread = float(np.max(spread / k_full))
+    if _porosity.outside_validity(rel, rd):
+        notes.append(f"porosity {1 - rd:.4g} is beyond the validity range of the {rel} relation "
+                     f"(porosity up to {_porosity.RELATIONS[rel][1]:.3g}); the correction is "
+                     "an extrapolation")
     _, _, validity = _porosity.RELATIONS[rel]
     notes.append(f"porosity correction ({rel}: {validity}): relative density {rd:.4g} "
                  f"(porosity {1 - rd:.4g}); k multiplied by {factor:.4g} to full density; "

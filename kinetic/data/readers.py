@@ -389,6 +389,11 @@ def _read_table(raw: bytes, name: str, *, label, kind, delimiter, decimal, encod
                                relative_density=flash["relative_density"],
                                relation=flash["porosity_correction"], header=header_values)
     notes.extend(por["notes"])
+    if por["relation"] is not None and si.get("resistivity") is not None:
+        # insulating pores obstruct charge as they obstruct heat: the same relation holds
+        si["resistivity"] = si["resistivity"] * (si["kappa"] / por["kappa"])
+        notes.append(f"resistivity corrected to full density by the same {por['relation']} "
+                     "factor (insulating pores obstruct electrical conduction alike)")
     final_label = label if label is not None else (meta_label or Path(name).stem)
     all_notes = tuple(c for _, c in comments) + tuple(notes)
     return Dataset(temperature=si["temperature"], kappa=por["kappa"],
