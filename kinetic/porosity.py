@@ -85,7 +85,12 @@ def maxwell_eucken_lower(k_solid, k_pore, phi):
     """
     ks, kp, p = np.asarray(k_solid, float), np.asarray(k_pore, float), _phi(phi)
     s = 1.0 - p
-    return kp * (2 * kp + ks - 2 * s * (kp - ks)) / (2 * kp + ks + s * (kp - ks))
+    num = kp * (2 * kp + ks - 2 * s * (kp - ks))
+    den = kp * (2 + s) + ks * p          # = 2 k_p + k_s + s (k_p - k_s); zero only for k_p = phi = 0
+    num, den, ks_b = np.broadcast_arrays(num, den, ks)
+    out = np.array(ks_b, dtype=float)    # phi = 0 with insulating pores: all solid
+    np.divide(num, den, out=out, where=den != 0)
+    return out if out.ndim else float(out)
 
 
 def bruggeman_landauer(k_solid, k_pore, phi):
