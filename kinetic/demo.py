@@ -57,7 +57,11 @@ from importlib import resources
 from pathlib import Path
 
 import numpy as np
-from scipy.constants import atomic_mass as _amu, e as _e, hbar as _hbar, k as _kB, m_e as _me
+from scipy.constants import atomic_mass as _amu
+from scipy.constants import e as _e
+from scipy.constants import hbar as _hbar
+from scipy.constants import k as _kB
+from scipy.constants import m_e as _me
 
 from . import heat_capacity as _hc
 from . import materials

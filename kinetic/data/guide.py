@@ -26,18 +26,35 @@ resistivity        rho, resistivity, electrical_resistivity                     
 el. conductivity   sigma, conductivity, electrical_conductivity                 S/m (stored as
                                                                                 resistivity)
 Seebeck coeff.     S, seebeck, thermopower, seebeck_coefficient                 V/K
+diffusivity        diffusivity, D, thermal_diffusivity (instead of kappa:       m^2/s
+                   k = D rho c_p, see :mod:`kinetic.data.diffusivity`)
+its uncertainty    diffusivity_err, D_err, dD                                   m^2/s
+density            density, mass_density, rho_m (only with a diffusivity)       kg/m^3
+heat capacity      cp, c_p, heat_capacity, specific_heat (only with a           J/(kg K)
+                   diffusivity)
 =================  ===========================================================  ==============
+
+A diffusivity file may also carry ``# density: 5.2 g/cm^3``, ``# cp: 0.2 J/(g K)``
+(or ``# cp: dulong-petit`` / ``# cp: debye``), ``# material: Mg2Si`` and
+``# relative_density: 0.92`` lines; any file may carry the last one, and
+``porosity_correction=`` corrects k to full density (:mod:`kinetic.porosity`).
+The columns of a diffusivity file have no default units: a diffusivity,
+density or heat capacity without its unit is refused.
 
 (The full list is :data:`COLUMN_ALIASES`; ``columns={"my name": "kappa"}`` adds
 your own, ``ignore_columns=["time"]`` skips extra columns.)
 
 Units are written in square brackets (``T [K]``) or parentheses (``T (K)``)
-after the name, or as ``T/K``, and are parsed with pint, so ``mW/(cm K)``,
+after the name, or as ``T/K``, ``kappa / (W/m/K)`` or ``kappa/(W/(m K))``
+(a name followed by "/" and no unit is refused), and are parsed with pint, so ``mW/(cm K)``,
 ``W m^-1 K^-1``, ``uOhm cm``, ``µΩ cm``, ``S/cm``, ``uV/K``, ``degC`` and
 ``degF`` all work.  Common lab spellings are understood too: ``W/mK`` and
 ``mW/cmK`` in a thermal-conductivity column mean W/(m K) and mW/(cm K) (not
 "per millikelvin"); ``Ohm`` in any case; ``W m-1 K-1``; a bare ``C`` or ``F``
-in the temperature column means degC or degF.  Celsius and Fahrenheit are
+in the temperature column means degC or degF; ``°C``, ``℃`` and the Latin-1
+degree sign work; inside a compound unit (``W/(m °C)``, ``uV/°C``) a degree
+Celsius is a temperature difference, equal to a kelvin; ``Wm-1K-1`` is
+W m^-1 K^-1.  Celsius and Fahrenheit are
 offset units and are converted as such (0 degC = 273.15 K).  A unit of the
 wrong kind (``kappa [K]``) is an error naming the column.  A unit may carry a
 scale factor: ``rho [1e-8 Ohm m]``.  An uncertainty column in ``%`` (or any
@@ -89,6 +106,22 @@ Design decisions a user should know
   sign.  Empty fields are errors (no missing values).
 * Double quotes around fields (as some spreadsheets write) are ignored;
   trailing empty columns (a header ending in a delimiter) are dropped.
+
+Limits (each refused at once, with a message naming the limit): files of more
+than 32 MB (``readers.MAX_FILE_BYTES``; files under 10 MB read in well under a
+second), lines of more than 10 000 bytes (``readers.MAX_LINE_BYTES``), units
+of more than 40 characters, with an exponent other than a plain number up to 4,
+a repeated exponent or a number of more than 8 digits, or with unbalanced
+parentheses (``units.MAX_UNIT_CHARS`` and friends: pint would evaluate
+``10^99999999`` exactly, for minutes).  Anything that is not a regular file
+(a FIFO, a device, a folder) is refused from ``os.stat`` before it is opened.
+A number that may hold a thousands separator (``1,500`` in a tab- or
+semicolon-separated file) is refused rather than guessed; ``decimal=","``
+reads it as a decimal comma.
+
+Options suggested by messages are named for every door: e.g.
+``--ignore-column NAME (CLI) / ignore_columns=["NAME"] (Python) / "Ignore
+columns" (workbench)``; :data:`kinetic.data.options.LOADER_OPTIONS` lists them.
 
 Every problem raises :class:`kinetic.errors.DataError` with one line naming the
 file, line and column, e.g.::

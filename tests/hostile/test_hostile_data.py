@@ -155,12 +155,6 @@ CASES = {
 }
 
 
-def _load(tmp_path, name, content, opts):
-    path = tmp_path / f"{name}.csv"
-    path.write_bytes(content)
-    return path, load_data(path, **opts)
-
-
 @pytest.mark.parametrize("name", sorted(CASES))
 def test_case(tmp_path, name):
     content, (outcome, a, b, opts) = CASES[name]
