@@ -108,8 +108,10 @@ Design decisions a user should know
   trailing empty columns (a header ending in a delimiter) are dropped.
 
 Limits (each refused at once, with a message naming the limit): files of more
-than 32 MB (``readers.MAX_FILE_BYTES``; files under 10 MB read in well under a
-second), lines of more than 10 000 bytes (``readers.MAX_LINE_BYTES``), units
+than 32 MB (``text.MAX_FILE_BYTES``; a clean 7 MB table reads in about a
+second on a shared two-core machine, a refused one in about twice that, since
+the first bad row is found by bisection), lines of more than 10 000 bytes
+(``text.MAX_LINE_BYTES``), units
 of more than 40 characters, with an exponent other than a plain number up to 4,
 a repeated exponent or a number of more than 8 digits, or with unbalanced
 parentheses (``units.MAX_UNIT_CHARS`` and friends: pint would evaluate

@@ -202,3 +202,24 @@ def _raise_first_bad_row(data: str, fast_data: str, hdr: _Header, delim: str | N
 def _row_lines(body: str, first_line: int) -> np.ndarray:
     return np.array([first_line + i for i, t in enumerate(body.split("\n")) if t.strip()],
                     dtype=np.int64)
+
+
+# "1,000" or "12,500,000": a thousands separator, or a decimal comma with three
+# decimals; either reading is possible, so the loader refuses to guess.
+_THOUSANDS_RE = re.compile(r"(?<![\d,.])[+-]?[1-9]\d{0,2}(?:,\d{3})+(?![\d,.])")
+
+
+def _refuse_thousands(data: str, hdr: _Header, delim: str | None, line_of) -> None:
+    """Raise DataError at the first number that may carry thousands separators."""
+    m = _THOUSANDS_RE.search(data)
+    if m is None:
+        return
+    row = data.count("\n", 0, m.start())
+    start = data.rfind("\n", 0, m.start()) + 1
+    prefix = data[start:m.start()]
+    col = len(prefix.split()) if delim is None else prefix.count(delim)
+    col = min(col, len(hdr.names) - 1)
+    raise DataError(
+        f'{hdr.file}, line {line_of(row)}, column "{hdr.names[col]}": {m.group(0)!r} may hold a '
+        "thousands separator or a decimal comma; expected numbers without thousands "
+        f'separators (or, if the commas are decimal marks, {suggest("decimal", ",")})')

@@ -4,7 +4,6 @@ from __future__ import annotations
 import hashlib
 import os
 import re
-import stat
 from pathlib import Path
 from typing import Iterable, Mapping
 
@@ -22,9 +21,16 @@ from .header import (
     _Header,
     _parse_header,
 )
-from .numbers import _BISECT_ROWS, _FastFail, _raise_first_bad_row, _row_lines, _Slow
+from .numbers import (
+    _BISECT_ROWS,
+    _FastFail,
+    _raise_first_bad_row,
+    _refuse_thousands,
+    _row_lines,
+    _Slow,
+)
 from .options import suggest
-from .text import _decode
+from .text import _check_size, _decode, _read_regular_file
 from .units import (
     _EXAMPLES,
     _WHAT,
@@ -37,7 +43,7 @@ from .units import (
     _UnitProblem,
 )
 
-__all__ = ["load_data", "parse_data", "load_series"]
+__all__ = ["load_data", "parse_data"]
 
 _ALL_SI = {**SI_UNITS, **FLASH_SI_UNITS}
 
@@ -60,27 +66,6 @@ def _resolve_columns(columns: Mapping[str, str] | None) -> dict[str, tuple[str, 
                                  '"T", "kappa", "kappa_lattice", "kappa_err", "rho", "sigma", "S"')
         out[_norm_name(str(k))] = target
     return out
-
-
-# "1,000" or "12,500,000": a thousands separator, or a decimal comma with three
-# decimals; either reading is possible, so the loader refuses to guess.
-_THOUSANDS_RE = re.compile(r"(?<![\d,.])[+-]?[1-9]\d{0,2}(?:,\d{3})+(?![\d,.])")
-
-
-def _refuse_thousands(data: str, hdr: _Header, delim: str | None, line_of) -> None:
-    """Raise DataError at the first number that may carry thousands separators."""
-    m = _THOUSANDS_RE.search(data)
-    if m is None:
-        return
-    row = data.count("\n", 0, m.start())
-    start = data.rfind("\n", 0, m.start()) + 1
-    prefix = data[start:m.start()]
-    col = len(prefix.split()) if delim is None else prefix.count(delim)
-    col = min(col, len(hdr.names) - 1)
-    raise DataError(
-        f'{hdr.file}, line {line_of(row)}, column "{hdr.names[col]}": {m.group(0)!r} may hold a '
-        "thousands separator or a decimal comma; expected numbers without thousands "
-        f'separators (or, if the commas are decimal marks, {suggest("decimal", ",")})')
 
 
 def _read_table(raw: bytes, name: str, *, label, kind, delimiter, decimal, encoding, units,
@@ -406,68 +391,6 @@ def _read_table(raw: bytes, name: str, *, label, kind, delimiter, decimal, encod
                    porosity_correction=por["relation"])
 
 
-#: Largest data file read [bytes].  A measured table is a few kB; a million
-#: rows of four columns is about 18 MB.  The limit keeps every read bounded:
-#: the vectorised pass reads 10 MB in well under a second.
-MAX_FILE_BYTES = 32_000_000
-#: Longest line read [bytes]; a header of a few hundred columns fits easily.
-MAX_LINE_BYTES = 10_000
-
-
-def _read_regular_file(path: Path, name: str) -> bytes:
-    """The bytes of a regular file, refusing anything else at once (before opening)."""
-    try:
-        st = os.stat(path)
-    except FileNotFoundError:
-        raise DataError(f"{name}: no such file; expected the path of a data table") from None
-    except PermissionError:
-        raise DataError(f"{name}: permission denied; expected a readable data file") from None
-    except OSError as exc:
-        raise DataError(f"{name}: cannot be read ({exc.strerror or exc}); expected a readable "
-                        "data file") from None
-    if stat.S_ISDIR(st.st_mode):
-        raise DataError(f"{name}: is a folder; expected the path of a data file "
-                        "(load_series reads every table in a folder)")
-    if not stat.S_ISREG(st.st_mode):
-        what = ("a named pipe (FIFO)" if stat.S_ISFIFO(st.st_mode) else
-                "a device" if stat.S_ISCHR(st.st_mode) or stat.S_ISBLK(st.st_mode) else
-                "a socket" if stat.S_ISSOCK(st.st_mode) else "not a regular file")
-        raise DataError(f"{name}: is {what}; expected a regular data file")
-    if st.st_size > MAX_FILE_BYTES:
-        raise DataError(f"{name}: {st.st_size} bytes is more than the {MAX_FILE_BYTES} bytes a "
-                        "data table may have; expected a table of measured points (split it)")
-    try:
-        with open(path, "rb") as fh:
-            raw = fh.read(MAX_FILE_BYTES + 1)
-    except PermissionError:
-        raise DataError(f"{name}: permission denied; expected a readable data file") from None
-    except OSError as exc:
-        raise DataError(f"{name}: cannot be read ({exc.strerror or exc}); expected a readable "
-                        "data file") from None
-    if len(raw) > MAX_FILE_BYTES:   # the file grew while being read
-        raise DataError(f"{name}: more than the {MAX_FILE_BYTES} bytes a data table may have; "
-                        "expected a table of measured points (split it)")
-    return raw
-
-
-def _check_size(raw: bytes, name: str) -> None:
-    """Refuse contents over the size or line-length limits (bounded work: numpy on bytes)."""
-    if len(raw) > MAX_FILE_BYTES:
-        raise DataError(f"{name}: {len(raw)} bytes is more than the {MAX_FILE_BYTES} bytes a "
-                        "data table may have; expected a table of measured points (split it)")
-    if len(raw) <= MAX_LINE_BYTES:
-        return
-    ends = np.flatnonzero(np.frombuffer(raw, dtype=np.uint8) == 10)
-    bounds = np.concatenate(([-1], ends, [len(raw)]))
-    lengths = np.diff(bounds) - 1
-    long = np.flatnonzero(lengths > MAX_LINE_BYTES)
-    if long.size:
-        i = int(long[0])
-        raise DataError(f"{name}, line {i + 1}: {int(lengths[i])} bytes is longer than the "
-                        f"{MAX_LINE_BYTES} bytes a line may have; expected one row of a table "
-                        "per line")
-
-
 def load_data(source, *, label: str | None = None, kind: str | None = None,
               delimiter: str | None = None, decimal: str | None = None,
               encoding: str | None = None, units: Mapping[str, str] | None = None,
@@ -594,71 +517,3 @@ def parse_data(content: bytes | str, *, name: str = "data", label: str | None = 
                                   diffusivity_rel_err=diffusivity_rel_err,
                                   density_rel_err=density_rel_err,
                                   heat_capacity_rel_err=heat_capacity_rel_err))
-
-
-_SERIES_SUFFIXES = (".csv", ".tsv", ".txt", ".dat")
-
-
-def load_series(sources, labels: Iterable[str] | None = None, **options) -> list[Dataset]:
-    """Read several files as a series, one sample each (e.g. grain sizes, compositions).
-
-    Parameters
-    ----------
-    sources : iterable of paths, or one folder
-        The files, in series order.  A folder means every .csv, .tsv, .txt and .dat
-        file in it, sorted by name.
-    labels : iterable of str, optional
-        One label per file; default each file's ``# label:`` comment, else its name.
-    **options
-        Passed to :func:`load_data` (kind, delimiter, decimal, encoding, units,
-        columns, ignore_columns, and the diffusivity and porosity options).
-
-    Returns
-    -------
-    list of Dataset
-
-    Raises
-    ------
-    DataError
-        A file is malformed (message as :func:`load_data`), a folder holds no
-        tables, or two samples end up with the same label.
-    ParameterError
-        labels has the wrong length, or an option is invalid.
-    """
-    if "label" in options:
-        raise ParameterError("load_series takes labels=[...] (one per file), not label=")
-    if isinstance(sources, (str, os.PathLike)):
-        folder = Path(sources)
-        if not folder.is_dir():
-            raise ParameterError(f"sources must be a list of paths or a folder, got the single "
-                                 f"file {os.fspath(sources)!r} (use load_data, or pass [path])")
-        paths = sorted(p for p in folder.iterdir()
-                       if p.is_file() and p.suffix.lower() in _SERIES_SUFFIXES)
-        if not paths:
-            raise DataError(f"{os.fspath(sources)}: no .csv, .tsv, .txt or .dat files in this "
-                            "folder; expected data tables")
-    else:
-        try:
-            paths = list(sources)
-        except TypeError:
-            raise ParameterError(f"sources must be a list of paths, got {sources!r}") from None
-    if not paths:
-        raise ParameterError("sources must name at least one file, got an empty list")
-    if labels is not None:
-        if isinstance(labels, str):
-            raise ParameterError("labels must be a list of strings (one per file), got a string")
-        labels = list(labels)
-        if len(labels) != len(paths):
-            raise ParameterError(f"labels must have one entry per file: {len(paths)} files, "
-                                 f"{len(labels)} labels")
-    out: list[Dataset] = []
-    used: dict[str, str] = {}
-    for i, p in enumerate(paths):
-        ds = load_data(p, label=None if labels is None else labels[i], **options)
-        if ds.label in used:
-            raise DataError(f'{os.fspath(p)}: label "{ds.label}" is already used by '
-                            f"{used[ds.label]}; expected one label per sample (pass labels=[...] "
-                            'or write a "# label: ..." line in each file)')
-        used[ds.label] = os.fspath(p)
-        out.append(ds)
-    return out

@@ -21,7 +21,7 @@ import numpy as np
 import pytest
 
 from kinetic.data import load_data
-from kinetic.data.readers import MAX_FILE_BYTES, MAX_LINE_BYTES
+from kinetic.data.text import MAX_FILE_BYTES, MAX_LINE_BYTES
 from kinetic.data.units import MAX_UNIT_CHARS
 from kinetic.errors import DataError, ParameterError
 
