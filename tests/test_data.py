@@ -851,3 +851,26 @@ def test_series_errors(tmp_path):
         load_series([])
     with pytest.raises(DataError, match=r"text_in_number\.csv, line 4"):
         load_series([paths[0], BAD / "text_in_number.csv"])
+
+
+# ======================================================================================
+# Every door converts pint quantities (issue 9: never read them as bare numbers)
+# ======================================================================================
+
+def test_every_dataset_door_converts_quantities():
+    import pint
+
+    u = pint.UnitRegistry()
+    T = u.Quantity([26.85, 126.85], "degC")
+    k = u.Quantity([1500.0, 1200.0], "mW/(cm K)")
+    direct = Dataset(temperature=T, kappa=k)
+    arrays = Dataset.from_arrays(T, k)
+    np.testing.assert_allclose(direct.temperature, [300.0, 400.0])
+    np.testing.assert_allclose(direct.kappa, [150.0, 120.0])
+    np.testing.assert_allclose(arrays.temperature, direct.temperature)
+    np.testing.assert_allclose(arrays.kappa, direct.kappa)
+    assert len(direct.subset(u.Quantity(100.0, "degC"))) == 1     # 373.15 K
+    with pytest.raises(DataError, match="temperature: expected a temperature, got a quantity in meter"):
+        Dataset(temperature=u.Quantity([1.0], "m"), kappa=[1.0])
+    with pytest.raises(ParameterError, match="tmin must be a temperature"):
+        direct.subset(u.Quantity(1.0, "m"))

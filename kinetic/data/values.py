@@ -10,6 +10,7 @@ import numpy as np
 
 from ..errors import DataError, ParameterError
 from .columns import _FLASH_ROLES, _ROLE_ORDER
+from .units import _PINT_SI, _WHAT
 
 
 def _fmt(v: float) -> str:
@@ -152,6 +153,12 @@ def _as_columns(cols: Mapping[str, Any]) -> dict[str, np.ndarray]:
         if r not in cols or cols[r] is None:
             continue
         v = cols[r]
+        if _is_quantity(v):   # a pint quantity is converted, never read as a bare number
+            try:
+                v = v.to(_PINT_SI[r]).magnitude
+            except Exception as exc:  # noqa: BLE001  pint DimensionalityError and friends
+                raise DataError(f"{r}: expected {_WHAT[r]}, got a quantity in {v.units} "
+                                f"({type(exc).__name__})") from None
         try:
             a = np.asarray(v, dtype=float)
         except (TypeError, ValueError):
