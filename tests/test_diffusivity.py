@@ -206,3 +206,16 @@ def test_load_series_passes_flash_options(tmp_path):
     (ds,) = load_series([p], density=2000, heat_capacity=500)
     assert float(ds.kappa[0]) == pytest.approx(4.0)
     assert load_data(p, density=2000, heat_capacity=500) == ds
+
+
+def test_kappa_by_heat_capacity_scales_k_by_the_cp_ratio():
+    from kinetic.data.diffusivity import kappa_by_heat_capacity
+
+    ds = parse_data(HDR + "# relative_density: 0.9\n" + BASE, porosity_correction="dem")
+    ks = kappa_by_heat_capacity(ds, "Mg2Si")
+    np.testing.assert_allclose(ks["header"], ds.kappa)
+    np.testing.assert_allclose(ks["dulong-petit"], ds.kappa * hc.dulong_petit("Mg2Si") / 500.0)
+    np.testing.assert_allclose(ks["debye"], ds.kappa * hc.debye("Mg2Si", ds.temperature) / 500.0)
+    assert set(kappa_by_heat_capacity(ds)) == {"header"}
+    with pytest.raises(ParameterError, match="no heat capacity recorded"):
+        kappa_by_heat_capacity(parse_data("T [K], kappa [W/(m K)]\n300, 1\n"))

@@ -57,7 +57,8 @@ from ..errors import DataError, ParameterError
 from .options import suggest
 from .units import _PINT_SI, _resolve_unit, _to_si, _unit_message, _UnitProblem
 
-__all__ = ["DEFAULT_RELATIVE_ERRORS", "PLAUSIBLE_RANGES", "kappa_from_diffusivity"]
+__all__ = ["DEFAULT_RELATIVE_ERRORS", "PLAUSIBLE_RANGES", "kappa_by_heat_capacity",
+           "kappa_from_diffusivity"]
 
 #: Default relative standard errors (see the module docstring for their basis).
 DEFAULT_RELATIVE_ERRORS: dict[str, float] = {
@@ -311,6 +312,35 @@ def kappa_from_diffusivity(*, name: str, temperature: np.ndarray, diffusivity: n
     notes.append(_choice_note(choice, cp, mat, T))
     return {"kappa": kappa, "kappa_err": kappa_err, "density": rho, "heat_capacity": cp,
             "choice": choice, "notes": notes}
+
+
+def kappa_by_heat_capacity(dataset, material: str | None = None) -> dict[str, np.ndarray]:
+    """k of a flash Dataset under each heat-capacity choice [W m^-1 K^-1].
+
+    Returns a dict: the Dataset's own choice (e.g. "column" or "debye") -> its
+    kappa, and "dulong-petit" and "debye" (where the material is a preset) ->
+    kappa x c_p(choice) / c_p(used), with any porosity correction kept.
+
+    Raises
+    ------
+    ParameterError
+        The Dataset holds no heat capacity (it was not read from a diffusivity).
+
+    >>> from kinetic.data import parse_data
+    >>> ds = parse_data("# density: 2 g/cm^3\\n# cp: 0.5 J/(g K)\\nT [K], D [mm^2/s]\\n300, 4\\n")
+    >>> {k: round(float(v[0]), 3) for k, v in kappa_by_heat_capacity(ds, "Mg2Si").items()}
+    {'header': 4.0, 'dulong-petit': 7.805, 'debye': 7.101}
+    """
+    if getattr(dataset, "heat_capacity", None) is None:
+        raise ParameterError("dataset: no heat capacity recorded; expected a Dataset read from a "
+                             "diffusivity file (k = D rho c_p)")
+    out = {dataset.heat_capacity_choice or "used": np.array(dataset.kappa)}
+    if material is None:
+        return out
+    for alt, cp in _hc.compare_heat_capacity(material, dataset.temperature).items():
+        if alt not in out:
+            out[alt] = dataset.kappa * cp / dataset.heat_capacity
+    return out
 
 
 def _choice_note(choice: str, cp: np.ndarray, material, T: np.ndarray) -> str:
