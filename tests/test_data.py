@@ -23,9 +23,12 @@ from pathlib import Path
 
 import numpy as np
 import pytest
-from hypothesis import given, settings, strategies as st, HealthCheck
+from hypothesis import HealthCheck, given, settings
+from hypothesis import strategies as st
 
 import kinetic.data as kd
+import kinetic.data.numbers as kdn
+import kinetic.data.units as kdu
 from kinetic.data import Dataset, load_data, load_series, parse_data
 from kinetic.errors import DataError, ParameterError, RecordError
 
@@ -126,16 +129,16 @@ def test_malformed_file_gives_one_line_naming_file_line_column(fname):
 
 def _load_slow(path, **options):
     """Load with the vectorised pass disabled (the line-by-line reference pass only)."""
-    real = kd._fast_numbers
+    real = kdn._fast_numbers
 
     def refuse(*a, **k):
-        raise kd._FastFail
+        raise kdn._FastFail
 
-    kd._fast_numbers = refuse
+    kdn._fast_numbers = refuse
     try:
         return load_data(path, **options)
     finally:
-        kd._fast_numbers = real
+        kdn._fast_numbers = real
 
 
 def test_message_style_matches_the_documented_example(tmp_path):
@@ -458,9 +461,9 @@ def test_shortcut_unit_table_agrees_with_pint():
     import pint
 
     u = pint.UnitRegistry()
-    for (role, unit), factor in kd._COMMON_UNITS.items():
+    for (role, unit), factor in kdu._COMMON_UNITS.items():
         spelling = unit.replace("Ω", "ohm").replace("Ohm", "ohm")
-        assert u.Quantity(1.0, spelling).to(kd._PINT_SI[role]).magnitude == pytest.approx(
+        assert u.Quantity(1.0, spelling).to(kdu._PINT_SI[role]).magnitude == pytest.approx(
             factor, rel=2.3e-16), (role, unit)
 
 
@@ -543,16 +546,16 @@ def test_parse_data_matches_load_data_for_the_same_bytes():
 # ======================================================================================
 
 def _parse_slow(text, **options):
-    real = kd._fast_numbers
+    real = kdn._fast_numbers
 
     def refuse(*a, **k):
-        raise kd._FastFail
+        raise kdn._FastFail
 
-    kd._fast_numbers = refuse
+    kdn._fast_numbers = refuse
     try:
         return parse_data(text, **options)
     finally:
-        kd._fast_numbers = real
+        kdn._fast_numbers = real
 
 
 finite = st.floats(min_value=1e-300, max_value=1e300, allow_nan=False, allow_infinity=False)
@@ -584,7 +587,7 @@ def test_clean_file_takes_the_vectorised_pass(monkeypatch):
     def boom(*a, **k):
         raise AssertionError("line-by-line pass used for a clean file")
 
-    monkeypatch.setattr(kd._Slow, "parse", boom)
+    monkeypatch.setattr(kdn._Slow, "parse", boom)
     for name in ("units.csv", "tabs.tsv", "whitespace.dat", "decimal_comma.csv", "comments.csv",
                  "excel_export.csv", "crlf.csv"):
         load_data(GOOD / name)
@@ -613,14 +616,14 @@ def test_vectorised_pass_does_not_accept_misaligned_rows(text):
     ("10,1.5", ",", 3, 1),
 ])
 def test_vectorised_pass_refuses_anything_doubtful(data, delim, ncols, nrows):
-    with pytest.raises(kd._FastFail):
-        kd._fast_numbers(data, delim, ncols, nrows)
+    with pytest.raises(kdn._FastFail):
+        kdn._fast_numbers(data, delim, ncols, nrows)
 
 
 def test_vectorised_pass_reads_a_plain_table():
-    got = kd._fast_numbers("1, 2.5\n3 ,4e-3\n  5,6", ",", 2, 3)
+    got = kdn._fast_numbers("1, 2.5\n3 ,4e-3\n  5,6", ",", 2, 3)
     np.testing.assert_array_equal(got, [[1, 2.5], [3, 4e-3], [5, 6]])
-    got = kd._fast_numbers(" 1\t 2.5\n3   4e-3", None, 2, 2)
+    got = kdn._fast_numbers(" 1\t 2.5\n3   4e-3", None, 2, 2)
     np.testing.assert_array_equal(got, [[1, 2.5], [3, 4e-3]])
 
 
@@ -632,8 +635,8 @@ def test_vectorised_pass_reads_a_plain_table():
 ])
 @pytest.mark.parametrize("gaps", [False, True])
 def test_large_file_error_is_located_like_the_line_pass(tmp_path, bad, where, gaps):
-    # above kd._BISECT_ROWS rows the first bad row is found by bisection
-    n = kd._BISECT_ROWS + 10_000
+    # above kdn._BISECT_ROWS rows the first bad row is found by bisection
+    n = kdn._BISECT_ROWS + 10_000
     rows = [f"{i + 1}, 1.5" for i in range(n)]
     k = 12_345
     rows[k] = f"{k + 1}, {bad}"
@@ -644,18 +647,18 @@ def test_large_file_error_is_located_like_the_line_pass(tmp_path, bad, where, ga
     p = tmp_path / "large.csv"
     p.write_text("T [K], kappa [W/(m K)]\n" + "\n".join(rows) + "\n")
     seen = []
-    real_parse = kd._Slow.parse
+    real_parse = kdn._Slow.parse
 
     def spy(self, body, first_line):
         seen.append(body.count("\n") + 1)
         return real_parse(self, body, first_line)
 
-    kd._Slow.parse = spy
+    kdn._Slow.parse = spy
     try:
         with pytest.raises(DataError) as fast:
             load_data(p)
     finally:
-        kd._Slow.parse = real_parse
+        kdn._Slow.parse = real_parse
     assert seen == [1]          # only the offending row went through the line pass
     with pytest.raises(DataError) as slow:
         _load_slow(p)
@@ -848,3 +851,26 @@ def test_series_errors(tmp_path):
         load_series([])
     with pytest.raises(DataError, match=r"text_in_number\.csv, line 4"):
         load_series([paths[0], BAD / "text_in_number.csv"])
+
+
+# ======================================================================================
+# Every door converts pint quantities (issue 9: never read them as bare numbers)
+# ======================================================================================
+
+def test_every_dataset_door_converts_quantities():
+    import pint
+
+    u = pint.UnitRegistry()
+    T = u.Quantity([26.85, 126.85], "degC")
+    k = u.Quantity([1500.0, 1200.0], "mW/(cm K)")
+    direct = Dataset(temperature=T, kappa=k)
+    arrays = Dataset.from_arrays(T, k)
+    np.testing.assert_allclose(direct.temperature, [300.0, 400.0])
+    np.testing.assert_allclose(direct.kappa, [150.0, 120.0])
+    np.testing.assert_allclose(arrays.temperature, direct.temperature)
+    np.testing.assert_allclose(arrays.kappa, direct.kappa)
+    assert len(direct.subset(u.Quantity(100.0, "degC"))) == 1     # 373.15 K
+    with pytest.raises(DataError, match="temperature: expected a temperature, got a quantity in meter"):
+        Dataset(temperature=u.Quantity([1.0], "m"), kappa=[1.0])
+    with pytest.raises(ParameterError, match="tmin must be a temperature"):
+        direct.subset(u.Quantity(1.0, "m"))
