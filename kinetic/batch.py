@@ -31,12 +31,12 @@ import json
 import math
 import os
 import sys
-import tempfile
 from concurrent.futures import ProcessPoolExecutor, as_completed
 from dataclasses import dataclass, field
 
 import numpy as np
 
+from ._io import atomic_write
 from ._validate import callable_or_none, integer, temperatures
 from .errors import KineticError, ParameterError
 
@@ -118,11 +118,11 @@ class BatchResult:
         w = csv.writer(buf, lineterminator="\n")
         w.writerow(self.columns())
         w.writerows(self.flat_rows())
-        _atomic_write(path, buf.getvalue())
+        atomic_write(path, buf.getvalue())
 
     def to_json(self, path) -> None:
         """Write the table as JSON (atomically), schema ``kinetic.batch-summary`` version 1."""
-        _atomic_write(path, json.dumps(self.to_dict(), indent=1, allow_nan=False) + "\n")
+        atomic_write(path, json.dumps(self.to_dict(), indent=1, allow_nan=False) + "\n")
 
     def table(self) -> str:
         """A short plain-text table for a terminal: label, status, values, k_L."""
@@ -175,38 +175,6 @@ def _plain(obj):
     if isinstance(obj, (float, np.floating)):
         return float(obj) if math.isfinite(obj) else None
     return obj
-
-
-def _local_atomic_write(path, text: str) -> None:
-    """Write text to ``path`` atomically: a temporary file in the same folder, fsync, rename.
-
-    Transitional, used only where ``kinetic._io`` (the project's one atomic-write
-    helper, same contract) is not in the build: delete once it is merged.
-    """
-    path = os.fspath(path)
-    folder = os.path.dirname(os.path.abspath(path))
-    fd, tmp = tempfile.mkstemp(prefix="." + os.path.basename(path) + ".", suffix=".tmp", dir=folder)
-    try:
-        with os.fdopen(fd, "w", encoding="utf-8", newline="") as fh:
-            fh.write(text)
-            fh.flush()
-            os.fsync(fh.fileno())
-        umask = os.umask(0)
-        os.umask(umask)
-        os.chmod(tmp, 0o666 & ~umask)
-        os.replace(tmp, path)
-    except BaseException:
-        try:
-            os.unlink(tmp)
-        except OSError:
-            pass
-        raise
-
-
-try:
-    from ._io import atomic_write as _atomic_write
-except ImportError:  # transitional, see _local_atomic_write
-    _atomic_write = _local_atomic_write
 
 
 # ------------------------------------------------------------------------------
@@ -324,20 +292,14 @@ def _progress_callback(progress, total):
 
 
 def _start_model(material, mechanisms=None, split_branches=None):
-    try:
-        from .defaults import default_model
-    except ImportError:  # transitional, until kinetic/defaults.py is merged
-        from .fitting import default_model as start
+    from .defaults import default_model
 
-        return start(material, mechanisms, split_branches=bool(split_branches))
     return default_model(material, mechanisms=mechanisms, split_branches=split_branches)
 
 
 def _start_free(model):
-    try:
-        from .defaults import default_free
-    except ImportError:  # transitional, as above
-        from .fitting import default_free
+    from .defaults import default_free
+
     return list(default_free(model))
 
 

@@ -16,42 +16,23 @@ from ._args import assignments, number
 
 
 def _defaults():
-    """``kinetic.defaults`` where this build has it, else None."""
-    try:
-        return importlib.import_module("kinetic.defaults")
-    except ModuleNotFoundError as exc:
-        if exc.name != "kinetic.defaults":
-            raise
-        return None
+    """``kinetic.defaults``, imported on first use (it loads numpy and scipy)."""
+    return importlib.import_module("kinetic.defaults")
 
 
 def default_model(material, *, mechanisms=None, split_branches=None):
     """The preset's default model (``kinetic.defaults.default_model``)."""
-    d = _defaults()
-    if d is not None and hasattr(d, "default_model"):
-        return d.default_model(material, mechanisms=mechanisms, split_branches=split_branches)
-    # Transitional, until kinetic/defaults.py is merged: the fitter's start model.
-    from ..fitting import default_model as start_model
-
-    return start_model(material, mechanisms, split_branches=bool(split_branches))
+    return _defaults().default_model(material, mechanisms=mechanisms, split_branches=split_branches)
 
 
 def default_free(model) -> list:
-    d = _defaults()
-    if d is not None and hasattr(d, "default_free"):
-        return list(d.default_free(model))
-    from ..fitting import default_free as free  # transitional, as above
-
-    return list(free(model))
+    return list(_defaults().default_free(model))
 
 
 def scope_notes(material, **where) -> list:
     """Plain notes on where a prediction leaves what the preset was checked against."""
-    d = _defaults()
-    f = getattr(d, "scope_notes", None) if d is not None else None
-    if f is None:
-        return []
-    return [str(n) for n in f(material, **{k: v for k, v in where.items() if v is not None})]
+    notes = _defaults().scope_notes(material, **{k: v for k, v in where.items() if v is not None})
+    return [str(n) for n in notes]
 
 
 def model_from(args, material=None, *, base=None):

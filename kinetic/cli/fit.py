@@ -58,7 +58,11 @@ def add_parser(sub, model_options):
     g.add_argument("--heat-capacity", "--cp", dest="heat_capacity", metavar="CP",
                    help="heat capacity for diffusivity data: dulong-petit, debye or a value [J/(kg K)]")
     g.add_argument("--relative-density", metavar="X", help="pellet density / full density, in (0, 1]")
-    g.add_argument("--porosity-correction", metavar="NAME", help="effective-medium correction to full density")
+    g.add_argument("--porosity-correction", metavar="NAME",
+                   help="effective-medium correction to full density (maxwell-eucken, landauer, dem, loeb)")
+    g.add_argument("--diffusivity-rel-err", metavar="X", help="relative 1-sigma error of D (default 0.03)")
+    g.add_argument("--density-rel-err", metavar="X", help="relative 1-sigma error of the density (default 0.01)")
+    g.add_argument("--heat-capacity-rel-err", metavar="X", help="relative 1-sigma error of c_p")
     o = f.add_argument_group("output")
     o.add_argument("--save", metavar="RECORD.json", help="save a fit record (one fit only)")
     o.add_argument("--report", metavar="FIG", help="save a report figure (.png, .svg, .pdf; one fit only)")
@@ -95,6 +99,11 @@ def load_options(args) -> dict:
         hc = args.heat_capacity.strip().lower()
         opts["heat_capacity"] = hc if hc in ("dulong-petit", "debye") else \
             number(args.heat_capacity, "--heat-capacity", unit="J/(kg K)")
+    for name in ("diffusivity_rel_err", "density_rel_err", "heat_capacity_rel_err"):
+        if getattr(args, name, None) is not None:
+            opts[name] = number(getattr(args, name), "--" + name.replace("_", "-"))
+    if opts.get("heat_capacity") == "debye" and getattr(args, "material", None):
+        opts["material"] = args.material  # the Debye heat capacity of that preset
     if args.relative_density is not None:
         x = number(args.relative_density, "--relative-density")
         if not 0.0 < x <= 1.0:
