@@ -3,6 +3,27 @@ from typing import Dict
 
 from ._fields import _GS1964, _IUPAC, _KITTEL, _MS2006, Preset, _f, _gap  # noqa: F401
 
+
+
+def _calibrated(model: dict, calibration: dict) -> Dict[str, dict]:
+    """The ``model`` and ``calibration`` fields of a preset calibrated on a k(T) table.
+
+    ``model``: how the default model of the preset's reference sample is built
+    (branches, boundary length [m], point-defect Gamma, Umklapp gamma and b,
+    normal processes). ``calibration``: the table it was fitted to (source,
+    temperature range [K], rms relative deviation [%], reference and model
+    conductivity at 300 K [W/m/K]).
+    """
+    how = ("computed: kinetic.fit on reference/compound_kappa.csv "
+           "(reference/calibrate_compounds.py)")
+    return {
+        "model": _f(model, "SI", calibration["source"], how,
+                    "model-specific calibration for kinetic's Debye/Callaway model; the fitted "
+                    "gamma is not a material constant"),
+        "calibration": _f(calibration, "SI", calibration["source"], how),
+    }
+
+
 COMPOUNDS: Dict[str, Preset] = {
     "GaAs": {
         "formula": _f("GaAs", "", "chemical formula", "checked: semi1source glossary"),
@@ -72,21 +93,23 @@ COMPOUNDS: Dict[str, Preset] = {
         "density": _f(8248.9, "kg/m^3", "M_bar * u / V_atom (X-ray density)",
                       "computed from atomic_mass and lattice_volume_per_atom",
                       "handbook value 8164 kg/m^3 (Wikipedia/CRC, checked) is 1 % lower"),
-        "debye_temperature": _f(105.0, "K", "Sharov, 'Linear coefficient of thermal "
-                                "expansion and Debye temperature of PbTe at high "
-                                "temperatures', Phys. Solid State (abstract), 105 +- 3 K",
-                                "checked: j.ioffe.ru/articles/54581",
-                                "X-RAY (atomic displacement) Debye temperature, 293-573 K; "
-                                "a calorimetric theta is higher (~130-136 K, from memory)"),
-        "velocity_longitudinal": _gap("m/s", "PbTe elastic constants (Houston, Strakna & "
-                                      "Belson, J. Appl. Phys. 39, 3913 (1968)) not found; "
-                                      "remembered C_ij give a theta_0 that does not match "
-                                      "the checked thetas, so none is given"),
-        "velocity_transverse": _gap("m/s", "see velocity_longitudinal"),
-        "velocity_debye": _f(1139.0, "m/s", "v_D = (k_B theta/hbar)(6 pi^2 n_at)^(-1/3)",
-                             "computed from debye_temperature (105 K, X-ray) and "
-                             "lattice_volume_per_atom",
-                             "inherits the X-ray kind of theta: likely an underestimate"),
+        "debye_temperature": _f(164.9, "K", "elastic theta_0 = hbar v_D (6 pi^2 n)^(1/3) / kB",
+                                "computed from velocity_debye and lattice_volume_per_atom",
+                                "ELASTIC theta_0 (a Debye branch then holds 3 modes per atom). "
+                                "X-ray (atomic displacement) theta 105 +- 3 K, 293-573 K (Sharov, "
+                                "Phys. Solid State, abstract, checked: j.ioffe.ru/articles/54581); "
+                                "calorimetric ~130-136 K (from memory)"),
+        "elastic_constants": _f({"C11": 108.0e9, "C12": 7.7e9, "C44": 13.4e9}, "Pa",
+                                "Houston, Strakna & Belson, J. Appl. Phys. 39, 3913 (1968), "
+                                "ultrasonic, room temperature", "from memory"),
+        "velocity_longitudinal": _f(3157.0, "m/s", "direction average of the Christoffel L velocity",
+                                    "computed from elastic_constants and density"),
+        "velocity_transverse": _f(1738.0, "m/s",
+                                  "direction average of the two Christoffel T velocities",
+                                  "computed from elastic_constants and density"),
+        "velocity_debye": _f(1789.0, "m/s", "3/v_D^3 = <sum_i v_i^-3> over directions",
+                             "computed from elastic_constants and density",
+                             "the X-ray theta (105 K) would imply 1139 m/s; not used"),
         "gruneisen": _gap("1", "no bulk modulus / heat capacity found to form gamma_th; "
                           "alpha = 19.7e-6 1/K (Sharov, checked) is known"),
         "gruneisen_slack": _f(1.45, "1", _MS2006, "from memory", "low confidence"),
@@ -170,20 +193,111 @@ COMPOUNDS: Dict[str, Preset] = {
                       "computed from atomic_mass and lattice_volume_per_atom",
                       "the page's 1880 kg/m^3 is 6 % lower (probably not a single-"
                       "crystal value)"),
-        "debye_temperature": _f(417.0, "K", "PVEducation / Madelung (2004)",
-                                "checked: pveducation.org/zh-hans/pvcdrom/mg2si",
-                                "kind not stated on the page (given at 300 K)"),
-        "velocity_longitudinal": _gap("m/s", "Mg2Si elastic constants (Whitten, Chung & "
-                                      "Danielson, J. Phys. Chem. Solids 26, 49 (1965)) "
-                                      "not found; remembered C_ij give theta_0 ~ 590 K "
-                                      "against the checked 417 K, so none is given"),
-        "velocity_transverse": _gap("m/s", "see velocity_longitudinal"),
-        "velocity_debye": _f(3877.0, "m/s", "v_D = (k_B theta/hbar)(6 pi^2 n_at)^(-1/3)",
-                             "computed from debye_temperature (417 K) and "
-                             "lattice_volume_per_atom"),
+        "debye_temperature": _f(586.6, "K", "elastic theta_0 = hbar v_D (6 pi^2 n)^(1/3) / kB",
+                                "computed from velocity_debye and lattice_volume_per_atom",
+                                "ELASTIC theta_0 (3 modes per atom in the Debye branch). "
+                                "PVEducation/Madelung (2004) give 417 K at 300 K (checked: "
+                                "pveducation.org); X-ray (ADP) 425(2) K (Joergensen et al., Acta "
+                                "Cryst. B 73, 1158 (2017), checked: dissem.in abstract)"),
+        "elastic_constants": _f({"C11": 126.0e9, "C12": 26.0e9, "C44": 48.5e9}, "Pa",
+                                "Whitten, Chung & Danielson, J. Phys. Chem. Solids 26, 49 (1965), "
+                                "ultrasonic, room temperature", "from memory",
+                                "consistent within ~10 % with the Mg2Si stiffnesses used as inputs "
+                                "on microstructures.net simulation pages (C11 115-125, C12 21-26 GPa)"),
+        "velocity_longitudinal": _f(7898.0, "m/s", "direction average of the Christoffel L velocity",
+                                    "computed from elastic_constants and density"),
+        "velocity_transverse": _f(4954.0, "m/s",
+                                  "direction average of the two Christoffel T velocities",
+                                  "computed from elastic_constants and density"),
+        "velocity_debye": _f(5455.0, "m/s", "3/v_D^3 = <sum_i v_i^-3> over directions",
+                             "computed from elastic_constants and density"),
         "gruneisen": _gap("1", "not found"),
-        "kappa_300K": _gap("W/(m K)", "not found in a source; ~8 remembered, unverified"),
+        "kappa_300K": _f(7.9, "W/(m K)", "LaBotz, Mason & O'Kane, J. Electrochem. Soc. 110, 127 "
+                         "(1963); Martin, J. Phys. Chem. Solids 33, 1139 (1972)", "from memory",
+                         "lattice part of single crystals"),
         "composition": _f({"Mg": 2, "Si": 1}, "atoms per formula unit",
                           "chemical formula", "checked: pveducation.org Mg2Si page"),
     },
 }
+
+
+# Calibrated reference-sample models (reference/calibrate_compounds.py; refit there, never by hand).
+_CAL = {
+    'GaAs': (
+        {'split_branches': False,
+ 'dispersion': 'debye',
+ 'boundary_length': 0.002,
+ 'point_defect_gamma': 9.161e-05,
+ 'umklapp': {'gruneisen': 2.1292, 'b': 2.364},
+ 'normal': None},
+        {'source': 'Sealy (1993) / Tiwari (1992) as tabulated by PMC6927520 Table 2: kappa(T) = '
+           '45.5 (T/300 K)^-1.3 W/m/K',
+ 'how': 'checked: pmc.ncbi.nlm.nih.gov/articles/PMC6927520/table/table2 (the law; values '
+        'computed from it)',
+ 'range_K': [300.0, 600.0],
+ 'n_points': 6,
+ 'rms_percent': 0.63,
+ 'max_percent': 0.96,
+ 'reference_300K': 45.5,
+ 'model_300K': 45.8505,
+ 'uncertainty_percent': 10.0}),
+    'PbTe': (
+        {'split_branches': False,
+ 'dispersion': 'debye',
+ 'boundary_length': 0.002,
+ 'point_defect_gamma': 9.737e-05,
+ 'umklapp': {'gruneisen': 4.4895, 'b': 10.0},
+ 'normal': None},
+        {'source': 'lattice conductivity of undoped/lightly doped PbTe as read from Y. Pei et '
+           'al., Nature 473, 66 (2011) and E. D. Devyatkova / Greig, Phys. Rev. 120, 358 '
+           '(1960)',
+ 'how': 'from memory (kappa_L ~ 2.0 W/m/K at 300 K falling about as 1/T; points read '
+        'from memory, not from a table)',
+ 'range_K': [300.0, 700.0],
+ 'n_points': 5,
+ 'rms_percent': 0.91,
+ 'max_percent': 1.45,
+ 'reference_300K': 2.0,
+ 'model_300K': 2.0289,
+ 'uncertainty_percent': 15.0}),
+    'Bi2Te3': (
+        {'split_branches': False,
+ 'dispersion': 'debye',
+ 'boundary_length': 0.002,
+ 'point_defect_gamma': 0.00010814,
+ 'umklapp': {'gruneisen': 4.7589, 'b': 10.0},
+ 'normal': None},
+        {'source': 'H. J. Goldsmid, Proc. Phys. Soc. B 69, 203 (1956): in-plane lattice '
+           'conductivity of Bi2Te3 varying as 1/T from ~150 K to 300 K; 300 K value 1.54 '
+           'as summarised by Witting et al., Research 2020, 4361703, Table 2',
+ 'how': '300 K value checked (spj.sciencemag.org/journals/research/2020/4361703/tab2); '
+        'the 1/T law is from memory, the other points computed from it',
+ 'range_K': [150.0, 300.0],
+ 'n_points': 4,
+ 'rms_percent': 1.07,
+ 'max_percent': 1.58,
+ 'reference_300K': 1.54,
+ 'model_300K': 1.5211,
+ 'uncertainty_percent': 15.0}),
+    'Mg2Si': (
+        {'split_branches': False,
+ 'dispersion': 'debye',
+ 'boundary_length': 0.002,
+ 'point_defect_gamma': 0.00052662,
+ 'umklapp': {'gruneisen': 5.6239, 'b': 10.0},
+ 'normal': None},
+        {'source': "R. J. LaBotz, D. R. Mason & D. F. O'Kane, J. Electrochem. Soc. 110, 127 "
+           '(1963); J. J. Martin, J. Phys. Chem. Solids 33, 1139 (1972): lattice '
+           'conductivity of Mg2Si single crystals',
+ 'how': 'from memory (7.9 W/m/K at 300 K, about 1/T above; other points computed from '
+        'the 1/T law)',
+ 'range_K': [300.0, 600.0],
+ 'n_points': 4,
+ 'rms_percent': 0.78,
+ 'max_percent': 1.33,
+ 'reference_300K': 7.9,
+ 'model_300K': 7.9434,
+ 'uncertainty_percent': 15.0}),
+}
+for _k, (_m, _c) in _CAL.items():
+    COMPOUNDS[_k].update(_calibrated(_m, _c))
