@@ -64,21 +64,24 @@ def calibrate(name, rows):
     u = m.mechanism("umklapp")
     k300 = float(m.kappa(np.array([300.0]))[0])
     ref300 = k[T == 300][0] if np.any(T == 300) else None
-    model = {"split_branches": False, "dispersion": "debye", "boundary_length": BOUNDARY,
-             "point_defect_gamma": round(material_gamma(mat), 8),
-             "umklapp": {"gruneisen": round(float(u.gruneisen), 4), "b": round(float(u.b), 3)},
-             "normal": None}
-    cal = {"source": rows[0]["source"], "how": rows[0]["how"],
-           "range_K": [float(T.min()), float(T.max())], "n_points": int(T.size),
-           "rms_percent": round(rms, 2), "max_percent": round(float(np.max(np.abs(model_k / k - 1))) * 100, 2),
-           "reference_300K": ref300, "model_300K": round(k300, 4),
-           "uncertainty_percent": float(rows[0]["uncertainty_percent"])}
-    return model, cal
+    entry = {"branches": "avg", "dispersion": "debye",
+             "mechanisms": {"boundary": {"length": BOUNDARY},
+                            "point_defect": {"gamma": round(material_gamma(mat), 8)},
+                            "umklapp": {"gruneisen": round(float(u.gruneisen), 4),
+                                        "b": round(float(u.b), 3)}},
+             "free": free, "source": rows[0]["source"], "table_how": rows[0]["how"],
+             "table": "reference/compound_kappa.csv", "t_min": float(T.min()), "t_max": float(T.max()),
+             "rms": round(rms / 100, 4), "n_points": int(T.size), "sample": rows[0]["note"],
+             "max_deviation": round(float(np.max(np.abs(model_k / k - 1))), 4),
+             "reference_300K": None if ref300 is None else float(ref300), "model_300K": round(k300, 4),
+             "uncertainty_percent": float(rows[0]["uncertainty_percent"])}
+    return entry
 
 
 if __name__ == "__main__":
     tab = table()
     names = sys.argv[1:] or list(tab)
     for n in names:
-        model, cal = calibrate(n, tab[n])
-        print(repr(n), ":", (model, {k: v for k, v in cal.items() if k not in ("source", "how")}), ",")
+        e = calibrate(n, tab[n])
+        print(f"{n}: gamma={e['mechanisms']['umklapp']} rms={e['rms']:.4f} "
+              f"k300={e['model_300K']} ref={e['reference_300K']}")

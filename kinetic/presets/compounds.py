@@ -5,23 +5,29 @@ from ._fields import _GS1964, _IUPAC, _KITTEL, _MS2006, Preset, _f, _gap  # noqa
 
 
 
-def _calibrated(model: dict, calibration: dict) -> Dict[str, dict]:
-    """The ``model`` and ``calibration`` fields of a preset calibrated on a k(T) table.
+def _calibrated(entry: dict) -> Dict[str, dict]:
+    """The ``model`` and ``calibration`` fields of a calibrated preset.
 
-    ``model``: how the default model of the preset's reference sample is built
-    (branches, boundary length [m], point-defect Gamma, Umklapp gamma and b,
-    normal processes). ``calibration``: the table it was fitted to (source,
-    temperature range [K], rms relative deviation [%], reference and model
-    conductivity at 300 K [W/m/K]).
+    Built in the shape of the calibrated-model schema of
+    :mod:`kinetic.presets._fields` (``model_field`` / ``calibration_field``)
+    from one entry of a ``_CAL`` table written by reference/calibrate_compounds.py:
+    ``model`` is the reference sample's model (branches, dispersion,
+    mechanisms with their parameters), ``calibration`` the k(T) table it was
+    fitted to (range [K], rms relative deviation as a fraction, 300 K values).
     """
-    how = ("computed: kinetic.fit on reference/compound_kappa.csv "
-           "(reference/calibrate_compounds.py)")
-    return {
-        "model": _f(model, "SI", calibration["source"], how,
-                    "model-specific calibration for kinetic's Debye/Callaway model; the fitted "
-                    "gamma is not a material constant"),
-        "calibration": _f(calibration, "SI", calibration["source"], how),
-    }
+    how = ("computed: kinetic.fit of " + ", ".join(entry["free"]) + " to the rows of "
+           "reference/compound_kappa.csv (reference/calibrate_compounds.py); "
+           "boundary length and point-defect Gamma fixed")
+    model = {"branches": entry["branches"], "dispersion": entry["dispersion"],
+             "mechanisms": entry["mechanisms"]}
+    cal = {k: entry[k] for k in ("table", "t_min", "t_max", "rms", "n_points", "sample",
+                                 "max_deviation", "reference_300K", "model_300K",
+                                 "uncertainty_percent", "table_how")}
+    return {"model": {"value": model, "unit": "SI", "source": entry["source"], "how": how,
+                      "note": "model-specific calibration of kinetic's Debye/Callaway model; the "
+                              "fitted gamma is not a material constant (not gamma_th, not Slack's)"},
+            "calibration": {"value": cal, "unit": "K; rms as a fraction",
+                            "source": entry["source"], "how": how}}
 
 
 COMPOUNDS: Dict[str, Preset] = {
@@ -221,83 +227,95 @@ COMPOUNDS: Dict[str, Preset] = {
 }
 
 
-# Calibrated reference-sample models (reference/calibrate_compounds.py; refit there, never by hand).
+
+# Calibrated reference-sample models, written by reference/calibrate_compounds.py
+# (refit there, never edit by hand). rms is relative (a fraction).
 _CAL = {
-    'GaAs': (
-        {'split_branches': False,
- 'dispersion': 'debye',
- 'boundary_length': 0.002,
- 'point_defect_gamma': 9.161e-05,
- 'umklapp': {'gruneisen': 2.1292, 'b': 2.364},
- 'normal': None},
-        {'source': 'Sealy (1993) / Tiwari (1992) as tabulated by PMC6927520 Table 2: kappa(T) = '
-           '45.5 (T/300 K)^-1.3 W/m/K',
- 'how': 'checked: pmc.ncbi.nlm.nih.gov/articles/PMC6927520/table/table2 (the law; values '
-        'computed from it)',
- 'range_K': [300.0, 600.0],
- 'n_points': 6,
- 'rms_percent': 0.63,
- 'max_percent': 0.96,
- 'reference_300K': 45.5,
- 'model_300K': 45.8505,
- 'uncertainty_percent': 10.0}),
-    'PbTe': (
-        {'split_branches': False,
- 'dispersion': 'debye',
- 'boundary_length': 0.002,
- 'point_defect_gamma': 9.737e-05,
- 'umklapp': {'gruneisen': 4.4895, 'b': 10.0},
- 'normal': None},
-        {'source': 'lattice conductivity of undoped/lightly doped PbTe as read from Y. Pei et '
-           'al., Nature 473, 66 (2011) and E. D. Devyatkova / Greig, Phys. Rev. 120, 358 '
-           '(1960)',
- 'how': 'from memory (kappa_L ~ 2.0 W/m/K at 300 K falling about as 1/T; points read '
-        'from memory, not from a table)',
- 'range_K': [300.0, 700.0],
- 'n_points': 5,
- 'rms_percent': 0.91,
- 'max_percent': 1.45,
- 'reference_300K': 2.0,
- 'model_300K': 2.0289,
- 'uncertainty_percent': 15.0}),
-    'Bi2Te3': (
-        {'split_branches': False,
- 'dispersion': 'debye',
- 'boundary_length': 0.002,
- 'point_defect_gamma': 0.00010814,
- 'umklapp': {'gruneisen': 4.7589, 'b': 10.0},
- 'normal': None},
-        {'source': 'H. J. Goldsmid, Proc. Phys. Soc. B 69, 203 (1956): in-plane lattice '
-           'conductivity of Bi2Te3 varying as 1/T from ~150 K to 300 K; 300 K value 1.54 '
-           'as summarised by Witting et al., Research 2020, 4361703, Table 2',
- 'how': '300 K value checked (spj.sciencemag.org/journals/research/2020/4361703/tab2); '
-        'the 1/T law is from memory, the other points computed from it',
- 'range_K': [150.0, 300.0],
- 'n_points': 4,
- 'rms_percent': 1.07,
- 'max_percent': 1.58,
- 'reference_300K': 1.54,
- 'model_300K': 1.5211,
- 'uncertainty_percent': 15.0}),
-    'Mg2Si': (
-        {'split_branches': False,
- 'dispersion': 'debye',
- 'boundary_length': 0.002,
- 'point_defect_gamma': 0.00052662,
- 'umklapp': {'gruneisen': 5.6239, 'b': 10.0},
- 'normal': None},
-        {'source': "R. J. LaBotz, D. R. Mason & D. F. O'Kane, J. Electrochem. Soc. 110, 127 "
-           '(1963); J. J. Martin, J. Phys. Chem. Solids 33, 1139 (1972): lattice '
-           'conductivity of Mg2Si single crystals',
- 'how': 'from memory (7.9 W/m/K at 300 K, about 1/T above; other points computed from '
-        'the 1/T law)',
- 'range_K': [300.0, 600.0],
- 'n_points': 4,
- 'rms_percent': 0.78,
- 'max_percent': 1.33,
- 'reference_300K': 7.9,
- 'model_300K': 7.9434,
- 'uncertainty_percent': 15.0}),
+    'GaAs': {'branches': 'avg',
+     'dispersion': 'debye',
+     'mechanisms': {'boundary': {'length': 0.002},
+                    'point_defect': {'gamma': 9.161e-05},
+                    'umklapp': {'gruneisen': 2.1292, 'b': 2.364}},
+     'free': ['umklapp.gruneisen', 'umklapp.b'],
+     'source': 'Sealy (1993) / Tiwari (1992) as tabulated by PMC6927520 Table 2: kappa(T) = 45.5 '
+               '(T/300 K)^-1.3 W/m/K',
+     'table_how': 'checked: pmc.ncbi.nlm.nih.gov/articles/PMC6927520/table/table2 (the law; values '
+                  'computed from it)',
+     'table': 'reference/compound_kappa.csv',
+     't_min': 300.0,
+     't_max': 600.0,
+     'rms': 0.0063,
+     'n_points': 6,
+     'sample': 'lattice (undoped/semi-insulating); Ioffe GaAs thermal page gives 55 at 300 K (checked) '
+               'and Carlson, Slack & Silverman, J. Appl. Phys. 36, 505 (1965) curves; the two sources '
+               'differ by ~20 %, hence 10 %',
+     'max_deviation': 0.0096,
+     'reference_300K': 45.5,
+     'model_300K': 45.8505,
+     'uncertainty_percent': 10.0},
+    'PbTe': {'branches': 'avg',
+     'dispersion': 'debye',
+     'mechanisms': {'boundary': {'length': 0.002},
+                    'point_defect': {'gamma': 9.737e-05},
+                    'umklapp': {'gruneisen': 4.4895, 'b': 10.0}},
+     'free': ['umklapp.gruneisen', 'umklapp.b'],
+     'source': 'lattice conductivity of undoped/lightly doped PbTe as read from Y. Pei et al., Nature '
+               '473, 66 (2011) and E. D. Devyatkova / Greig, Phys. Rev. 120, 358 (1960)',
+     'table_how': 'from memory (kappa_L ~ 2.0 W/m/K at 300 K falling about as 1/T; points read from '
+                  'memory, not from a table)',
+     'table': 'reference/compound_kappa.csv',
+     't_min': 300.0,
+     't_max': 700.0,
+     'rms': 0.0091,
+     'n_points': 5,
+     'sample': 'lattice part; AZoM/ESPI quotes 2.30 at room temperature (checked, total, weak source)',
+     'max_deviation': 0.0145,
+     'reference_300K': 2.0,
+     'model_300K': 2.0289,
+     'uncertainty_percent': 15.0},
+    'Bi2Te3': {'branches': 'avg',
+     'dispersion': 'debye',
+     'mechanisms': {'boundary': {'length': 0.002},
+                    'point_defect': {'gamma': 0.00010814},
+                    'umklapp': {'gruneisen': 4.7589, 'b': 10.0}},
+     'free': ['umklapp.gruneisen', 'umklapp.b'],
+     'source': 'H. J. Goldsmid, Proc. Phys. Soc. B 69, 203 (1956): in-plane lattice conductivity of '
+               'Bi2Te3 varying as 1/T from ~150 K to 300 K; 300 K value 1.54 as summarised by Witting '
+               'et al., Research 2020, 4361703, Table 2',
+     'table_how': '300 K value checked (spj.sciencemag.org/journals/research/2020/4361703/tab2); the '
+                  '1/T law is from memory, the other points computed from it',
+     'table': 'reference/compound_kappa.csv',
+     't_min': 150.0,
+     't_max': 300.0,
+     'rms': 0.0107,
+     'n_points': 4,
+     'sample': 'lattice part, in-plane; other authors 1.30-1.77 at 300 K (same table), i.e. ~15 % '
+               'scatter',
+     'max_deviation': 0.0158,
+     'reference_300K': 1.54,
+     'model_300K': 1.5211,
+     'uncertainty_percent': 15.0},
+    'Mg2Si': {'branches': 'avg',
+     'dispersion': 'debye',
+     'mechanisms': {'boundary': {'length': 0.002},
+                    'point_defect': {'gamma': 0.00052662},
+                    'umklapp': {'gruneisen': 5.6239, 'b': 10.0}},
+     'free': ['umklapp.gruneisen', 'umklapp.b'],
+     'source': "R. J. LaBotz, D. R. Mason & D. F. O'Kane, J. Electrochem. Soc. 110, 127 (1963); J. J. "
+               'Martin, J. Phys. Chem. Solids 33, 1139 (1972): lattice conductivity of Mg2Si single '
+               'crystals',
+     'table_how': 'from memory (7.9 W/m/K at 300 K, about 1/T above; other points computed from the '
+                  '1/T law)',
+     'table': 'reference/compound_kappa.csv',
+     't_min': 300.0,
+     't_max': 600.0,
+     'rms': 0.0078,
+     'n_points': 4,
+     'sample': 'lattice part',
+     'max_deviation': 0.0133,
+     'reference_300K': 7.9,
+     'model_300K': 7.9434,
+     'uncertainty_percent': 15.0},
 }
-for _k, (_m, _c) in _CAL.items():
-    COMPOUNDS[_k].update(_calibrated(_m, _c))
+for _k, _e in _CAL.items():
+    COMPOUNDS[_k].update(_calibrated(_e))
