@@ -21,7 +21,7 @@ already vectorised over rows (temperatures), so a 50 x 50 map costs 50 calls.
 """
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from typing import ClassVar
 
 import numpy as np
@@ -29,7 +29,8 @@ from scipy.constants import atomic_mass as _u, e as _e, h as _h, hbar as _hbar, 
 
 from ._validate import as_float_array, positive, temperatures as _check_T
 from .errors import ParameterError
-from .lattice import LatticeModel
+from .alloy import ABELES_BETA, ABELES_EPSILON, abeles_hosts, host_model, scope_notes, vc_model
+from .lattice import BLOCK_T, LatticeModel
 from .scattering import Boundary, Mechanism, PointDefect, Umklapp
 
 __all__ = [
@@ -43,6 +44,7 @@ __all__ = [
     "alloy_model",
     "alloy_sweep",
     "grain_alloy_map",
+    "iter_grain_alloy_map",
     "zt_vs_fermi_level",
 ]
 
@@ -192,7 +194,10 @@ def alloy_model(template: LatticeModel | None, material, gamma: float, *, extra_
     the branch velocity and Debye temperature follow the host); the branches
     come from ``material`` (split like the template's). Without a template the
     model is boundary (``boundary_length``, default 1 mm) + point defect +
-    Umklapp (``gruneisen``, default the material's).
+    Umklapp with the CALIBRATED Grüneisen parameter ``gruneisen``, which must
+    then be given (the thermodynamic gamma of a preset does not give the
+    conductivity; :func:`alloy_sweep` without a template starts from the
+    hosts' calibrated default models instead).
 
     Parameters
     ----------
@@ -206,14 +211,24 @@ def alloy_model(template: LatticeModel | None, material, gamma: float, *, extra_
     boundary_length : float, optional
         Overrides the template's boundary length [m].
     gruneisen : float, optional
-        Overrides the Grüneisen parameter.
+        Overrides the Grüneisen parameter; required without a template.
     b : float
         Umklapp exponent divisor when no template.
     split_branches : bool, optional
         Default: as the template (two branches named L and T), else False.
+
+    Raises
+    ------
+    ParameterError
+        No template and no ``gruneisen``.
     """
     g = float(gamma) + float(extra_gamma)
     if template is None:
+        if gruneisen is None:
+            raise ParameterError(
+                "alloy_model without a template needs gruneisen= (the calibrated Umklapp gamma of the "
+                "model, not the thermodynamic one); or pass template=, or use alloy_sweep, which starts "
+                "from the hosts' default models")
         split = bool(split_branches)
         sc = [Boundary(1e-3 if boundary_length is None else boundary_length),
               PointDefect.from_gamma(g, material.volume_per_atom),
@@ -256,6 +271,8 @@ class AlloySweep:
     gamma : ndarray (n,)
         Point-defect Gamma used (alloy + isotopes + extra).
     models : list of LatticeModel
+    notes : list of str
+        Where the prediction leaves what was checked (see :func:`kinetic.alloy.scope_notes`).
     """
 
     fractions: np.ndarray
@@ -263,6 +280,7 @@ class AlloySweep:
     kappa: np.ndarray
     gamma: np.ndarray
     models: list
+    notes: list = field(default_factory=list)
 
 
 def _host(m):
@@ -271,16 +289,46 @@ def _host(m):
     return materials.get(m) if isinstance(m, str) else m
 
 
+def _series_setup(a, b, template, strain_epsilon, normal_ratio, gruneisen, split_branches):
+    """End-member models and epsilon for a template-free alloy series (None models with a template)."""
+    eps = ABELES_EPSILON.get((a.name, b.name), 0.0) if strain_epsilon is None else strain_epsilon
+    if template is not None:
+        return None, None, eps
+    ma, mb = host_model(a), host_model(b)
+    if split_branches and len(ma.branches) == 1:
+        raise ParameterError(
+            f"the default models of {a.name} and {b.name} use one averaged branch; pass template= "
+            "(a model with split branches) for a split-branch series")
+    if gruneisen is not None:
+        ma, mb = (m.with_params({k: gruneisen for k in m.params if k.endswith(".gruneisen")}) for m in (ma, mb))
+    ma, mb = abeles_hosts(ma, mb, beta=normal_ratio)
+    return ma, mb, eps
+
+
+def _series_model(a, b, x, template, ma, mb, eps, isotopes, extra_gamma, boundary_length, gruneisen,
+                  split_branches):
+    from .disorder import virtual_crystal
+
+    mat, g = virtual_crystal(a, b, float(x), strain_epsilon=eps, isotopes=isotopes)
+    if template is None:
+        return vc_model(ma, mb, mat, g + extra_gamma, float(x), boundary_length=boundary_length), g
+    return alloy_model(template, mat, g, extra_gamma=extra_gamma, boundary_length=boundary_length,
+                       gruneisen=gruneisen, split_branches=split_branches), g
+
+
 def alloy_sweep(host_a, host_b, fractions, temperature, *, template: LatticeModel | None = None,
-                strain_epsilon: float = 0.0, extra_gamma: float = 0.0, isotopes: bool = True,
+                strain_epsilon: float | None = None, extra_gamma: float = 0.0, isotopes: bool = True,
                 boundary_length: float | None = None, gruneisen: float | None = None,
-                split_branches: bool | None = None) -> AlloySweep:
+                split_branches: bool | None = None, normal_ratio: float = ABELES_BETA) -> AlloySweep:
     """Lattice conductivity of A(1-x)B(x) against x in the virtual crystal.
 
-    For each x, :func:`kinetic.disorder.virtual_crystal` gives the host
-    (linear interpolation of mass, volume, velocities, Debye temperature,
-    Grüneisen parameter) and Abeles' Gamma(x) (plus natural-isotope Gamma if
-    ``isotopes``); :func:`alloy_model` builds the model.
+    Without a template the series starts from the default (calibrated
+    reference-sample) models of the two hosts, so x = 0 and x = 1 give each
+    host's calibrated conductivity; in between, the virtual crystal of
+    :mod:`kinetic.alloy` interpolates branches and scattering parameters and
+    uses Abeles' Gamma(x) (:func:`kinetic.disorder.virtual_crystal`) with
+    Abeles' normal processes (ratio ``normal_ratio``, Callaway's correction).
+    With a template, its mechanisms are kept (:func:`alloy_model`).
 
     Parameters
     ----------
@@ -292,34 +340,46 @@ def alloy_sweep(host_a, host_b, fractions, temperature, *, template: LatticeMode
         [K]
     template : LatticeModel, optional
         Mechanisms to keep (e.g. a fitted model of one end member).
-    strain_epsilon : float
-        Abeles' strain parameter epsilon (0: mass term only).
+    strain_epsilon : float, optional
+        Abeles' strain parameter epsilon; default Abeles' 39 for Si-Ge
+        (from memory), else 0 (mass term only).
     extra_gamma, boundary_length, gruneisen, split_branches
-        See :func:`alloy_model`.
+        See :func:`alloy_model`; without a template ``gruneisen`` overrides
+        both hosts' calibrated Umklapp gamma, and ``split_branches=True`` is
+        refused when the default models have one averaged branch.
+    normal_ratio : float
+        Abeles' beta = tau_U / tau_N for hosts whose default model has no
+        normal processes (0: none). Default 2.5 (Abeles 1963 for Si-Ge, from memory).
 
     Returns
     -------
     AlloySweep
+        With ``notes`` where the result leaves the checked range.
 
     References
     ----------
-    Abeles, Phys. Rev. 131, 1906 (1963); Klemens, Proc. Phys. Soc. A 68, 1113 (1955).
+    Abeles, Phys. Rev. 131, 1906 (1963); Klemens, Proc. Phys. Soc. A 68, 1113 (1955);
+    Callaway, Phys. Rev. 113, 1046 (1959).
     """
-    from .disorder import virtual_crystal
-
     a, b = _host(host_a), _host(host_b)
     xs = _values("fractions", fractions)
     if np.any((xs < 0) | (xs > 1)):
         raise ParameterError(f"fractions must lie in [0, 1], got {xs[(xs < 0) | (xs > 1)][0]!r}")
     T = np.atleast_1d(_check_T(temperature)).astype(float).ravel()
+    ma, mb, eps = _series_setup(a, b, template, strain_epsilon, normal_ratio, gruneisen, split_branches)
     models, gammas = [], []
     for x in xs:
-        mat, g = virtual_crystal(a, b, float(x), strain_epsilon=strain_epsilon, isotopes=isotopes)
-        models.append(alloy_model(template, mat, g, extra_gamma=extra_gamma, boundary_length=boundary_length,
-                                  gruneisen=gruneisen, split_branches=split_branches))
+        m, g = _series_model(a, b, x, template, ma, mb, eps, isotopes, extra_gamma, boundary_length,
+                             gruneisen, split_branches)
+        models.append(m)
         gammas.append(g + extra_gamma)
     kappa = np.array([m.kappa(T) for m in models])
-    return AlloySweep(xs, T, kappa, np.array(gammas), models)
+    notes = scope_notes(materials=(a, b) if template is None else (), temperature=T,
+                        lengths=None if boundary_length is None else [boundary_length],
+                        series=(a.name, b.name), fractions=xs)
+    if template is not None:
+        notes.insert(0, "started from the given template model, not the hosts' calibrated default models")
+    return AlloySweep(xs, T, kappa, np.array(gammas), models, notes)
 
 
 @dataclass(frozen=True)
@@ -327,7 +387,8 @@ class RowBoundary(Mechanism):
     """Boundary scattering with one length per temperature row (for vectorised maps).
 
     ``rate`` returns v_g / L_i on row i: use it with a temperature array that
-    holds one temperature per length, e.g. ``np.full(n, T0)``. Internal to
+    holds one temperature per length, e.g. ``np.full(n, T0)``, of at most
+    :data:`kinetic.lattice.BLOCK_T` rows (the engine's block). Internal to
     :func:`grain_alloy_map`; it has no fit parameters and is not saved in records.
     """
 
@@ -362,6 +423,8 @@ class GrainAlloyMap:
     kappa : ndarray (nx, nl)
         [W/m/K]; row = fraction, column = length.
     gamma : ndarray (nx,)
+    notes : list of str
+        Where the prediction leaves the checked range.
     """
 
     lengths: np.ndarray
@@ -369,38 +432,10 @@ class GrainAlloyMap:
     temperature: float
     kappa: np.ndarray
     gamma: np.ndarray
+    notes: list = field(default_factory=list)
 
 
-def grain_alloy_map(model: LatticeModel | None, lengths, fractions, temperature: float, *, host_a, host_b,
-                    strain_epsilon: float = 0.0, extra_gamma: float = 0.0, isotopes: bool = True,
-                    mechanism: str = "boundary") -> GrainAlloyMap:
-    """kappa at one temperature on a grid of boundary lengths x alloy fractions.
-
-    Parameters
-    ----------
-    model : LatticeModel or None
-        Template (see :func:`alloy_model`); must have a boundary mechanism
-        named ``mechanism`` if given (its specularity is kept). None: the
-        default boundary + point defect + Umklapp model.
-    lengths : array_like
-        Boundary lengths [m], > 0.
-    fractions : array_like
-        x in [0, 1].
-    temperature : float
-        [K]
-    host_a, host_b : Material or preset name
-    strain_epsilon, extra_gamma, isotopes
-        See :func:`alloy_sweep`.
-
-    Returns
-    -------
-    GrainAlloyMap
-        ``kappa[i, j]`` for fraction i and length j; equal (to rounding) to
-        building each model separately.
-    """
-    from .disorder import virtual_crystal
-
-    a, b = _host(host_a), _host(host_b)
+def _map_inputs(lengths, fractions, temperature):
     L = np.atleast_1d(positive("lengths", lengths, unit="m")).astype(float).ravel()
     xs = _values("fractions", fractions)
     if np.any((xs < 0) | (xs > 1)):
@@ -408,10 +443,24 @@ def grain_alloy_map(model: LatticeModel | None, lengths, fractions, temperature:
     T0 = np.atleast_1d(_check_T(temperature)).astype(float)
     if T0.size != 1:
         raise ParameterError(f"temperature must be a single number [K], got {T0.size} values")
-    T0 = float(T0[0])
-    Trow = np.full(L.size, T0)
-    out = np.empty((xs.size, L.size))
-    gam = np.empty(xs.size)
+    return L, xs, float(T0[0])
+
+
+def iter_grain_alloy_map(model: LatticeModel | None, lengths, fractions, temperature: float, *, host_a, host_b,
+                         strain_epsilon: float | None = None, extra_gamma: float = 0.0, isotopes: bool = True,
+                         mechanism: str = "boundary", normal_ratio: float = ABELES_BETA, rows: int = 16):
+    """The grain x alloy map in chunks of fractions, for maps too large to hold at once.
+
+    Same arguments as :func:`grain_alloy_map`; ``rows`` fractions per chunk.
+    Yields ``(start, kappa_rows, gamma_rows)``: ``kappa_rows[i, j]`` is kappa
+    [W/m/K] at fraction ``start + i`` and length j. Memory is one chunk of
+    ``rows x len(lengths)`` numbers plus one engine block (80 lengths) at a time.
+    """
+    a, b = _host(host_a), _host(host_b)
+    L, xs, T0 = _map_inputs(lengths, fractions, temperature)
+    rows = int(rows)
+    if rows < 1:
+        raise ParameterError(f"rows must be a whole number >= 1, got {rows!r}")
     factor, applies = 1.0, None
     if model is not None:
         bnd = model.mechanism(mechanism)
@@ -419,14 +468,71 @@ def grain_alloy_map(model: LatticeModel | None, lengths, fractions, temperature:
             raise ParameterError(f"mechanism {mechanism!r} of the template is not a Boundary")
         factor = bnd.effective_length / bnd.length
         applies = bnd.applies_to
-    rows = RowBoundary(lengths=tuple((L * factor).tolist()), name=mechanism, applies_to=applies)
-    for i, x in enumerate(xs):
-        mat, g = virtual_crystal(a, b, float(x), strain_epsilon=strain_epsilon, isotopes=isotopes)
-        m = alloy_model(model, mat, g, extra_gamma=extra_gamma)
-        m = m.with_mechanism(rows) if model is not None else m.without("boundary").with_mechanism(rows)
-        out[i] = m.kappa(Trow)
-        gam[i] = g + extra_gamma
-    return GrainAlloyMap(L, xs, T0, out, gam)
+    ma, mb, eps = _series_setup(a, b, model, strain_epsilon, normal_ratio, None, None)
+    blocks = [slice(i, min(i + BLOCK_T, L.size)) for i in range(0, L.size, BLOCK_T)]
+    row_mechs = [RowBoundary(lengths=tuple((L[sl] * factor).tolist()), name=mechanism, applies_to=applies)
+                 for sl in blocks]
+    Trows = [np.full(sl.stop - sl.start, T0) for sl in blocks]
+    for start in range(0, xs.size, rows):
+        chunk = xs[start:start + rows]
+        out = np.empty((chunk.size, L.size))
+        gam = np.empty(chunk.size)
+        for i, x in enumerate(chunk):
+            m, g = _series_model(a, b, x, model, ma, mb, eps, isotopes, extra_gamma, None, None, None)
+            if model is None and mechanism not in m.mechanism_names:
+                raise ParameterError(f"the default models have no boundary mechanism named {mechanism!r}")
+            base = m.without(mechanism)
+            for sl, rm, Tr in zip(blocks, row_mechs, Trows):
+                out[i, sl] = base.with_mechanism(rm).kappa(Tr)
+            gam[i] = g + extra_gamma
+        yield start, out, gam
+
+
+def grain_alloy_map(model: LatticeModel | None, lengths, fractions, temperature: float, *, host_a, host_b,
+                    strain_epsilon: float | None = None, extra_gamma: float = 0.0, isotopes: bool = True,
+                    mechanism: str = "boundary", normal_ratio: float = ABELES_BETA) -> GrainAlloyMap:
+    """kappa at one temperature on a grid of boundary lengths x alloy fractions (any size).
+
+    Parameters
+    ----------
+    model : LatticeModel or None
+        Template (see :func:`alloy_model`); must have a boundary mechanism
+        named ``mechanism`` if given (its specularity is kept). None: the
+        virtual crystal between the hosts' default (calibrated) models, as in
+        :func:`alloy_sweep`.
+    lengths : array_like
+        Boundary lengths [m], > 0 (any number).
+    fractions : array_like
+        x in [0, 1] (any number).
+    temperature : float
+        [K]
+    host_a, host_b : Material or preset name
+    strain_epsilon, extra_gamma, isotopes, normal_ratio
+        See :func:`alloy_sweep`.
+
+    Returns
+    -------
+    GrainAlloyMap
+        ``kappa[i, j]`` for fraction i and length j; equal (to rounding) to
+        building each model separately. The lengths are evaluated in blocks
+        of the engine's size (:data:`kinetic.lattice.BLOCK_T`); for maps that
+        should not be held in memory at once use :func:`iter_grain_alloy_map`.
+    """
+    L, xs, T0 = _map_inputs(lengths, fractions, temperature)
+    out = np.empty((xs.size, L.size))
+    gam = np.empty(xs.size)
+    for start, k, g in iter_grain_alloy_map(model, L, xs, T0, host_a=host_a, host_b=host_b,
+                                            strain_epsilon=strain_epsilon, extra_gamma=extra_gamma,
+                                            isotopes=isotopes, mechanism=mechanism, normal_ratio=normal_ratio,
+                                            rows=64):
+        out[start:start + k.shape[0]] = k
+        gam[start:start + k.shape[0]] = g
+    a, b = _host(host_a), _host(host_b)
+    notes = scope_notes(materials=(a, b) if model is None else (), temperature=[T0], lengths=L,
+                        series=(a.name, b.name), fractions=xs)
+    if model is not None:
+        notes.insert(0, "started from the given template model, not the hosts' calibrated default models")
+    return GrainAlloyMap(L, xs, T0, out, gam, notes)
 
 
 # ---------------------------------------------------------------------------------

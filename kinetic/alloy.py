@@ -1,0 +1,322 @@
+"""Virtual-crystal alloy models built from the calibrated default models of two hosts.
+
+Used by :func:`kinetic.whatif.alloy_sweep` and :func:`kinetic.whatif.grain_alloy_map`.
+
+* The end members are the default models of the two presets (the model of each
+  preset's reference sample, :func:`kinetic.defaults.default_model`), so x = 0
+  and x = 1 reproduce each host's calibrated conductivity.
+* At a fraction x the branches (velocity, Debye temperature) and every
+  scattering parameter of the two models are interpolated linearly (the virtual
+  crystal; common practice), and the point-defect Gamma is Abeles' alloy Gamma
+  of :func:`kinetic.disorder.virtual_crystal` (mass + strain, plus isotopes).
+* Normal processes, as in Abeles' model (Abeles, Phys. Rev. 131, 1906, 1963,
+  after Callaway 1959): 1/tau_N = beta 1/tau_U with Callaway's correction, where
+  beta = tau_U / tau_N is a constant ratio. Abeles took beta = 2.5 for Si-Ge
+  (from memory). When a host model has no Normal mechanism, one is added on each
+  branch with that ratio at the reference temperature ``T_REF``, and each
+  host's Umklapp strength is rescaled so that the host still gives its own
+  calibrated conductivity at ``T_REF`` (Abeles likewise fixed the anharmonic
+  strength on the pure crystals). The N-process correction is what keeps the
+  alloy from being over-suppressed: momentum taken from high-frequency modes
+  by normal processes is handed back to low-frequency ones that alloy
+  scattering barely touches.
+"""
+from __future__ import annotations
+
+from dataclasses import replace
+
+import numpy as np
+from scipy.constants import atomic_mass as _u
+from scipy.optimize import brentq
+
+from .dispersion import Branch
+from .errors import ParameterError
+from .lattice import LatticeModel
+from .scattering import Boundary, Normal, PointDefect, Umklapp
+
+try:  # calib's one default model per material
+    from .defaults import default_model as _calibrated_default
+except ImportError:  # pragma: no cover - TODO(lead): drop once kinetic/defaults.py is merged
+    _calibrated_default = None
+
+__all__ = ["ABELES_BETA", "ABELES_EPSILON", "T_REF", "CHECKED_SERIES", "host_model", "vc_model",
+           "abeles_hosts", "scope_notes"]
+
+#: Abeles' ratio beta = tau_U / tau_N for Si-Ge (Abeles, Phys. Rev. 131, 1906, 1963; from memory).
+ABELES_BETA = 2.5
+#: Abeles' strain parameter epsilon per alloy series (Abeles, Phys. Rev. 131, 1906, 1963:
+#: 39 for Si-Ge, from memory); other series default to 0 (mass term only).
+ABELES_EPSILON = {("Si", "Ge"): 39.0, ("Ge", "Si"): 39.0}
+#: Temperature [K] at which the added normal rate equals beta x the Umklapp rate.
+T_REF = 300.0
+
+#: Alloy series compared with published measurements (tests/test_alloys.py):
+#: (host_a, host_b) -> (x_min, x_max, temperature range [K], source).
+CHECKED_SERIES = {
+    ("Si", "Ge"): (0.2, 0.8, (300.0, 300.0),
+                   ("Dismukes et al., J. Appl. Phys. 35, 2899 (1964); Abeles et al., Phys. Rev. 125, 44 "
+                    "(1962) (single crystals, 300 K; values from memory)")),
+    ("Mg2Si", "Mg2Sn"): (0.4, 0.7, (300.0, 300.0),
+                         ("Zaitsev et al., Phys. Rev. B 74, 045207 (2006) (300 K lattice part; values "
+                          "from memory)")),
+}
+
+
+def _preset_model(material) -> LatticeModel:
+    """Build the reference-sample model from a preset's ``model`` field (calib's schema).
+
+    Development fallback for :func:`kinetic.defaults.default_model`.
+    """
+    from .presets import PRESETS
+    from .materials import get
+
+    p = PRESETS.get(material.name, {})
+    spec = (p.get("model") or {}).get("value")
+    if not spec:
+        from .fitting import default_model  # TODO(lead): kinetic.defaults.default_model
+
+        fit = getattr(material, "umklapp_fit", None)
+        if not fit:
+            raise ParameterError(
+                f"preset {material.name!r} has no calibrated model (preset field 'model'); "
+                "pass template=<LatticeModel> (e.g. a model fitted to your data)")
+        return default_model(material, split_branches=False)
+    mat = get(material.name)
+    sc = []
+    mech = spec["mechanisms"]
+    if "boundary" in mech:
+        sc.append(Boundary(**mech["boundary"]))
+    if "point_defect" in mech:
+        sc.append(PointDefect.from_gamma(mech["point_defect"]["gamma"], mat.volume_per_atom))
+    if "umklapp" in mech:
+        sc.append(Umklapp.from_material(mat, **mech["umklapp"]))
+    if "normal" in mech:
+        sc.append(Normal(**mech["normal"]))
+    return LatticeModel.from_material(mat, scattering=sc, split_branches=spec["branches"] == "split",
+                                      dispersion=spec["dispersion"])
+
+
+def host_model(material) -> LatticeModel:
+    """The default (calibrated reference-sample) model of a host material.
+
+    Raises
+    ------
+    ParameterError
+        The preset has no calibrated model: the message says which number is
+        missing and how to give it.
+    """
+    if _calibrated_default is not None:
+        return _calibrated_default(material.name)
+    return _preset_model(material)
+
+
+def _umklapp_coefficient(mech: Umklapp, branch: Branch) -> float:
+    return mech.coefficient(branch)
+
+
+def _normal_for(model: LatticeModel, beta: float, t_ref: float) -> list:
+    """Normal mechanisms, one per branch, with rate beta x Umklapp rate at t_ref (Abeles)."""
+    umk = [m for m in model.scattering if isinstance(m, Umklapp)]
+    if not umk:
+        raise ParameterError("Abeles' normal processes need an Umklapp mechanism in the host model")
+    out = []
+    for br in model.branches:
+        B = sum(_umklapp_coefficient(u, br) * np.exp(-br.debye_temperature / (u.b * t_ref))
+                for u in umk if u.applies(br))
+        name = "normal" if len(model.branches) == 1 else f"normal_{br.name}"
+        # rate B_N omega^2 T with B_N = beta B_U exp(-theta/(b T_ref)): beta x Umklapp at T_ref
+        out.append(Normal(B=beta * B, omega_power=2.0, temperature_power=1.0, name=name,
+                          applies_to=None if len(model.branches) == 1 else (br.name,)))
+    return out
+
+
+def _scale_umklapp(model: LatticeModel, s: float) -> LatticeModel:
+    """Multiply every Umklapp rate by s (gruneisen by sqrt(s), or B by s)."""
+    sc = []
+    for m in model.scattering:
+        if isinstance(m, Umklapp):
+            m = m.with_values(gruneisen=m.gruneisen * np.sqrt(s)) if m.gruneisen is not None else \
+                m.with_values(B=m.B * s)
+        sc.append(m)
+    return model._replace(scattering=tuple(sc))
+
+
+def abeles_hosts(model_a: LatticeModel, model_b: LatticeModel, *, beta: float = ABELES_BETA,
+                 t_ref: float = T_REF):
+    """End-member models with Abeles' normal processes, each still matching its own kappa(t_ref).
+
+    A host that already has a Normal mechanism is returned unchanged. With
+    ``beta = 0`` both are returned unchanged.
+    """
+    if beta <= 0:
+        return model_a, model_b
+    out = []
+    for m in (model_a, model_b):
+        if any(isinstance(x, Normal) for x in m.scattering):
+            out.append(m)
+            continue
+        target = float(m.kappa(np.array([t_ref]))[0])
+
+        def with_n(log_s, m=m):
+            ms = _scale_umklapp(m, float(np.exp(log_s)))
+            for n in _normal_for(ms, beta, t_ref):
+                ms = ms.with_mechanism(n)
+            return ms
+
+        def f(log_s, target=target):
+            return np.log(float(with_n(log_s).kappa(np.array([t_ref]))[0]) / target)
+
+        try:
+            log_s = brentq(f, -6.0, 6.0, xtol=1e-6)
+        except ValueError:
+            raise ParameterError(
+                f"could not add Abeles' normal processes to the {m.material} model (beta = {beta}); "
+                "pass normal_ratio=0 to leave them out") from None
+        out.append(with_n(log_s))
+    return tuple(out)
+
+
+def _lerp(a, b, x):
+    return (1.0 - x) * a + x * b
+
+
+def vc_model(model_a: LatticeModel, model_b: LatticeModel, material, gamma: float, x: float, *,
+             boundary_length: float | None = None) -> LatticeModel:
+    """The virtual-crystal model at fraction x between two host models of the same form.
+
+    Branches and scattering parameters are interpolated linearly; the point
+    defect becomes Klemens' form with Abeles' ``gamma`` and the virtual
+    crystal's volume per atom; Umklapp takes the virtual crystal's mean mass.
+
+    Raises
+    ------
+    ParameterError
+        The two host models differ in form (branch names or mechanisms).
+    """
+    x = float(x)
+    na = [b.name for b in model_a.branches]
+    nb = [b.name for b in model_b.branches]
+    if na != nb or any(a.dispersion != b.dispersion for a, b in zip(model_a.branches, model_b.branches)):
+        raise ParameterError(
+            f"the default models of {model_a.material} and {model_b.material} have different branches "
+            f"({na} vs {nb}); pass template= to use one form for the whole series")
+    branches = [replace(a, velocity=_lerp(a.velocity, b.velocity, x),
+                        debye_temperature=_lerp(a.debye_temperature, b.debye_temperature, x))
+                for a, b in zip(model_a.branches, model_b.branches)]
+    mb = {m.name: m for m in model_b.scattering}
+    sc = []
+    pd_done = False
+    for m in model_a.scattering:
+        if isinstance(m, PointDefect):
+            if not pd_done:
+                sc.append(PointDefect.from_gamma(gamma, material.volume_per_atom, name=m.name,
+                                                 applies_to=m.applies_to))
+                pd_done = True
+            continue
+        other = mb.get(m.name)
+        if other is None or type(other) is not type(m):
+            raise ParameterError(
+                f"mechanism {m.name!r} of the {model_a.material} model has no counterpart in the "
+                f"{model_b.material} model; pass template= to use one form for the whole series")
+        vals = {}
+        for p, va in m.values.items():
+            vb = other.values.get(p)
+            if p == "atomic_mass":
+                vals[p] = material.atomic_mass * _u
+            elif p == "volume_per_atom":
+                vals[p] = material.volume_per_atom
+            elif vb is not None:
+                vals[p] = _lerp(va, vb, x)
+        if isinstance(m, Boundary) and boundary_length is not None:
+            vals["length"] = boundary_length
+        sc.append(m.with_values(**vals))
+    if not pd_done:
+        sc.append(PointDefect.from_gamma(gamma, material.volume_per_atom))
+    return LatticeModel(branches, sc, normal_correction=model_a.normal_correction, material=material.name)
+
+
+# ---------------------------------------------------------------------------------
+# honest scope: plain notes where a prediction leaves what was checked
+# ---------------------------------------------------------------------------------
+
+#: Smallest boundary length [m] compared with measurements (Si films and wires, 20-200 nm
+#: at 300 K, by the group-IV calibration); only Si's size effect was checked.
+SMALLEST_CHECKED_LENGTH = 20e-9
+
+
+def _span(lo, hi, unit="K"):
+    return f"{lo:g} {unit}" if lo == hi else f"{lo:g}-{hi:g} {unit}"
+
+
+def _calibration(name):
+    from .presets import PRESETS
+
+    p = PRESETS.get(name) if isinstance(name, str) else None
+    if p is None:
+        return None, False
+    cal = (p.get("calibration") or {}).get("value")
+    return cal, True
+
+
+def scope_notes(*, materials=(), temperature=None, lengths=None, series=None, fractions=None) -> list:
+    """Plain notes where a what-if result leaves the range its models were checked on.
+
+    Parameters
+    ----------
+    materials : iterable of str or Material
+        Hosts whose default (calibrated) model the result starts from.
+    temperature : array_like, optional
+        Temperatures of the result [K].
+    lengths : array_like, optional
+        Boundary lengths (grain sizes) [m].
+    series : (str, str), optional
+        Alloy end members.
+    fractions : array_like, optional
+        Alloy fractions x.
+    """
+    notes = []
+    T = None if temperature is None else np.atleast_1d(np.asarray(temperature, dtype=float))
+    for m in materials:
+        name = getattr(m, "name", m)
+        cal, is_preset = _calibration(name)
+        if not is_preset:
+            notes.append(f"{name}: not a preset, so its model is not calibrated on published data")
+            continue
+        if cal is None:
+            notes.append(f"{name}: preset without a calibration on a published k(T) table; "
+                         "its numbers are uncalibrated")
+            continue
+        if T is not None and "t_min" in cal:
+            lo, hi = float(cal["t_min"]), float(cal["t_max"])
+            out = T[(T < lo) | (T > hi)]
+            if out.size:
+                notes.append(f"{name}: temperature {_span(out.min(), out.max())} lies outside the "
+                             f"calibrated range {_span(lo, hi)}")
+    if lengths is not None:
+        L = np.atleast_1d(np.asarray(lengths, dtype=float))
+        names = [getattr(m, "name", m) for m in materials]
+        if np.any(L < SMALLEST_CHECKED_LENGTH):
+            notes.append(f"boundary lengths below {SMALLEST_CHECKED_LENGTH * 1e9:g} nm were not checked "
+                         "against measurements")
+        if any(n != "Si" for n in names):
+            notes.append("the grain-size (boundary) effect was checked against measurements for Si only; "
+                         "in hot-pressed material the effective boundary length is often far below the "
+                         "grain size (Meddins & Parrott, J. Phys. C 9, 1263, 1976)")
+    if series is not None and fractions is not None:
+        xs = np.atleast_1d(np.asarray(fractions, dtype=float))
+        inner = xs[(xs > 0) & (xs < 1)]
+        key = tuple(getattr(s, "name", s) for s in series)
+        rng = CHECKED_SERIES.get(key) or CHECKED_SERIES.get(key[::-1])
+        if rng is None:
+            if inner.size:
+                notes.append(f"the {key[0]}-{key[1]} alloy series was not checked against measurements "
+                             "(virtual-crystal model, Abeles 1963)")
+        else:
+            lo, hi = (rng[0], rng[1]) if key in CHECKED_SERIES else (1 - rng[1], 1 - rng[0])
+            bad = inner[(inner < lo) | (inner > hi)]
+            if bad.size:
+                notes.append(f"alloy fractions {', '.join(f'{v:g}' for v in bad[:5])} of {key[0]}-{key[1]} "
+                             f"lie outside the checked range x = {lo:g}-{hi:g}")
+            if T is not None and np.any((T < rng[2][0]) | (T > rng[2][1])):
+                notes.append(f"the {key[0]}-{key[1]} alloys were checked at {_span(*rng[2])} only")
+    return notes
