@@ -20,6 +20,7 @@ package.
 from __future__ import annotations
 
 import re
+from functools import lru_cache
 from typing import Mapping, Sequence
 
 import numpy as np
@@ -62,6 +63,11 @@ def species_mass(species: str) -> float:
     """
     if not isinstance(species, str):
         raise ParameterError(f"species must be a string such as 'Si' or '28Si', got {species!r}")
+    return _species_mass(species)
+
+
+@lru_cache(maxsize=1024)
+def _species_mass(species: str) -> float:
     m = _ISOTOPE.match(species.strip())
     if m:
         a, sym = (m.group(1), m.group(2)) if m.group(1) else (m.group(4), m.group(3))
@@ -75,6 +81,7 @@ def species_mass(species: str) -> float:
     return float(_element(species.strip()).mass)
 
 
+@lru_cache(maxsize=256)
 def _natural_isotopes(symbol: str):
     el = _element(symbol)
     pairs = [(el[a].mass, el[a].abundance) for a in el.isotopes if el[a].abundance]
@@ -82,7 +89,10 @@ def _natural_isotopes(symbol: str):
         raise ParameterError(f"periodictable lists no natural isotopes for {symbol!r}")
     m = np.array([p[0] for p in pairs], dtype=float)
     f = np.array([p[1] for p in pairs], dtype=float)
-    return m, f / f.sum()
+    m.setflags(write=False)
+    f = f / f.sum()
+    f.setflags(write=False)
+    return m, f
 
 
 def _gamma(masses, fractions) -> float:

@@ -70,6 +70,10 @@ class Sweep:
     lower, upper : ndarray (n, m) or None
         Confidence band from the fit result's covariance (None without a result).
     level : float or None
+    notes : list of str
+        Where the prediction leaves what was checked: a preset's default
+        model outside its calibrated temperature range, boundary lengths
+        below those checked (see :func:`kinetic.alloy.scope_notes`).
     """
 
     param: str
@@ -79,6 +83,26 @@ class Sweep:
     lower: np.ndarray | None = None
     upper: np.ndarray | None = None
     level: float | None = None
+    notes: list = field(default_factory=list)
+
+
+def _sweep_notes(model: LatticeModel, param: str, vals, T) -> list:
+    """Scope notes for a sweep: calibration notes only when ``model`` is a preset's default model."""
+    from .presets import PRESETS
+
+    mats = ()
+    if model.material in PRESETS:
+        try:
+            if model == host_model(_host(model.material)):
+                mats = (model.material,)
+        except ParameterError:
+            mats = (model.material,)  # an uncalibrated preset: say so
+    lengths = vals if param.endswith(".length") else None
+    notes = scope_notes(materials=mats, temperature=T, lengths=lengths)
+    if lengths is not None and not mats and model.material != "Si":
+        notes = [n for n in notes if "checked against measurements for Si only" not in n] + [
+            "the grain-size (boundary) effect was checked against measurements for Si only"]
+    return notes
 
 
 def _values(name, values):
@@ -134,8 +158,9 @@ def sweep(model: LatticeModel | None, param: str, values, temperature, result=No
     T = np.atleast_1d(_check_T(temperature)).astype(float).ravel()
     models = [model.with_params({param: float(v)}) for v in vals]
     kappa = np.array([m.kappa(T) for m in models])
+    notes = _sweep_notes(model, param, vals, T)
     if result is None:
-        return Sweep(param, vals, T, kappa)
+        return Sweep(param, vals, T, kappa, notes=notes)
     level = _level(level)
     i = _sample_index(result, sample)
     keep = [j for j, f in enumerate(result.free) if f.param != param and i in f.samples]
@@ -155,7 +180,7 @@ def sweep(model: LatticeModel | None, param: str, values, temperature, result=No
         with np.errstate(over="ignore"):
             lo[n] = np.exp(lk - q * sd)
             hi[n] = np.exp(lk + q * sd)
-    return Sweep(param, vals, T, kappa, lo, hi, level)
+    return Sweep(param, vals, T, kappa, lo, hi, level, notes)
 
 
 def grain_size_sweep(model: LatticeModel | None, lengths, temperature, result=None, *, mechanism: str = "boundary",
@@ -289,7 +314,7 @@ def _host(m):
     return materials.get(m) if isinstance(m, str) else m
 
 
-def _series_setup(a, b, template, strain_epsilon, normal_ratio, gruneisen, split_branches):
+def _series_setup(a, b, template, strain_epsilon, normal_ratio, gruneisen, split_branches, t_ref):
     """End-member models and epsilon for a template-free alloy series (None models with a template)."""
     eps = ABELES_EPSILON.get((a.name, b.name), 0.0) if strain_epsilon is None else strain_epsilon
     if template is not None:
@@ -301,7 +326,7 @@ def _series_setup(a, b, template, strain_epsilon, normal_ratio, gruneisen, split
             "(a model with split branches) for a split-branch series")
     if gruneisen is not None:
         ma, mb = (m.with_params({k: gruneisen for k in m.params if k.endswith(".gruneisen")}) for m in (ma, mb))
-    ma, mb = abeles_hosts(ma, mb, beta=normal_ratio)
+    ma, mb = abeles_hosts(ma, mb, beta=normal_ratio, t_ref=t_ref)
     return ma, mb, eps
 
 
@@ -354,7 +379,9 @@ def alloy_sweep(host_a, host_b, fractions, temperature, *, template: LatticeMode
     Returns
     -------
     AlloySweep
-        With ``notes`` where the result leaves the checked range.
+        With ``notes`` where the result leaves the checked range. Without a
+        template the normal-process rescaling of the hosts is done at each
+        temperature, so ``models`` are those of the first temperature.
 
     References
     ----------
@@ -366,14 +393,25 @@ def alloy_sweep(host_a, host_b, fractions, temperature, *, template: LatticeMode
     if np.any((xs < 0) | (xs > 1)):
         raise ParameterError(f"fractions must lie in [0, 1], got {xs[(xs < 0) | (xs > 1)][0]!r}")
     T = np.atleast_1d(_check_T(temperature)).astype(float).ravel()
-    ma, mb, eps = _series_setup(a, b, template, strain_epsilon, normal_ratio, gruneisen, split_branches)
+    # Abeles' normal processes are fixed on the hosts at each temperature of the sweep (so that
+    # x = 0 and 1 reproduce the host models there): one set of models per temperature.
+    kappa = np.empty((xs.size, T.size))
     models, gammas = [], []
-    for x in xs:
-        m, g = _series_model(a, b, x, template, ma, mb, eps, isotopes, extra_gamma, boundary_length,
-                             gruneisen, split_branches)
-        models.append(m)
-        gammas.append(g + extra_gamma)
-    kappa = np.array([m.kappa(T) for m in models])
+    for j, t in enumerate(T if template is None else T[:1]):
+        ma, mb, eps = _series_setup(a, b, template, strain_epsilon, normal_ratio, gruneisen, split_branches,
+                                    float(t))
+        ms, gs = [], []
+        for x in xs:
+            m, g = _series_model(a, b, x, template, ma, mb, eps, isotopes, extra_gamma, boundary_length,
+                                 gruneisen, split_branches)
+            ms.append(m)
+            gs.append(g + extra_gamma)
+        if template is None:
+            kappa[:, j] = [float(m.kappa(np.array([t]))[0]) for m in ms]
+        else:
+            kappa[:] = np.array([m.kappa(T) for m in ms])
+        if j == 0:
+            models, gammas = ms, gs
     notes = scope_notes(materials=(a, b) if template is None else (), temperature=T,
                         lengths=None if boundary_length is None else [boundary_length],
                         series=(a.name, b.name), fractions=xs)
@@ -468,7 +506,7 @@ def iter_grain_alloy_map(model: LatticeModel | None, lengths, fractions, tempera
             raise ParameterError(f"mechanism {mechanism!r} of the template is not a Boundary")
         factor = bnd.effective_length / bnd.length
         applies = bnd.applies_to
-    ma, mb, eps = _series_setup(a, b, model, strain_epsilon, normal_ratio, None, None)
+    ma, mb, eps = _series_setup(a, b, model, strain_epsilon, normal_ratio, None, None, T0)
     blocks = [slice(i, min(i + BLOCK_T, L.size)) for i in range(0, L.size, BLOCK_T)]
     row_mechs = [RowBoundary(lengths=tuple((L[sl] * factor).tolist()), name=mechanism, applies_to=applies)
                  for sl in blocks]
