@@ -75,10 +75,12 @@ COMPOUNDS: Dict[str, Preset] = {
                               "fitted gamma for Slack's formula"),
         "debye_temperature_acoustic": _f(220.0, "K", _MS2006, "from memory",
                                          "Slack's theta_a (acoustic branches only)"),
-        "kappa_300K": _f(55.0, "W/(m K)", "Ioffe 'GaAs thermal properties'",
-                         "checked: ioffe.ru/SVA/NSM/Semicond/GaAs/thermal.html",
-                         "other sources: 45.5 (PMC6927520 Table 2), 46 (semi1source); "
-                         "treat as +-10 %"),
+        "kappa_300K": _f(45.5, "W/(m K)", "Sealy (1993) / Tiwari (1992) law kappa = 45.5 "
+                         "(T/300 K)^-1.3 W/m/K, as tabulated by PMC6927520 Table 2 (the "
+                         "calibration table of this preset)",
+                         "checked: pmc.ncbi.nlm.nih.gov/articles/PMC6927520/table/table2",
+                         "other sources: 55 (Ioffe 'GaAs thermal properties', checked), 46 "
+                         "(semi1source, checked); the published values scatter by ~20 %"),
         "composition": _f({"Ga": 1, "As": 1}, "atoms per formula unit",
                           "chemical formula", "checked: semi1source glossary"),
     },
@@ -119,9 +121,11 @@ COMPOUNDS: Dict[str, Preset] = {
         "gruneisen": _gap("1", "no bulk modulus / heat capacity found to form gamma_th; "
                           "alpha = 19.7e-6 1/K (Sharov, checked) is known"),
         "gruneisen_slack": _f(1.45, "1", _MS2006, "from memory", "low confidence"),
-        "kappa_300K": _f(2.30, "W/(m K)", "AZoM/ESPI 'Lead Telluride (PbTe) Semiconductors'",
-                         "checked: azom.com ArticleID=8431",
-                         "weak source; does not say total or lattice, nor the doping"),
+        "kappa_300K": _f(2.0, "W/(m K)", "lattice conductivity of PbTe, Y. Pei et al., Nature "
+                         "473, 66 (2011); Greig, Phys. Rev. 120, 358 (1960) (the calibration "
+                         "table of this preset)", "from memory",
+                         "LATTICE part; AZoM/ESPI 'Lead Telluride (PbTe) Semiconductors' gives 2.30 "
+                         "(checked: azom.com ArticleID=8431; weak source, total or lattice not said)"),
         "composition": _f({"Pb": 1, "Te": 1}, "atoms per formula unit",
                           "chemical formula", "checked: Wikipedia 'Lead telluride' copy"),
     },
