@@ -315,28 +315,33 @@ def _host(m):
 
 
 def _series_setup(a, b, template, strain_epsilon, normal_ratio, gruneisen, split_branches, t_ref):
-    """End-member models and epsilon for a template-free alloy series (None models with a template)."""
+    """Epsilon and, without a template, the host models: plain (for x = 0, 1) and with Abeles' N.
+
+    Abeles' normal processes are fixed on each host's reference sample (its default model) at
+    ``t_ref``; the end members x = 0 and 1 themselves are the plain host models.
+    """
     eps = ABELES_EPSILON.get((a.name, b.name), 0.0) if strain_epsilon is None else strain_epsilon
     if template is not None:
-        return None, None, eps
-    ma, mb = host_model(a), host_model(b)
-    if split_branches and len(ma.branches) == 1:
+        return {"eps": eps}
+    ha, hb = host_model(a), host_model(b)
+    if split_branches and len(ha.branches) == 1:
         raise ParameterError(
             f"the default models of {a.name} and {b.name} use one averaged branch; pass template= "
             "(a model with split branches) for a split-branch series")
     if gruneisen is not None:
-        ma, mb = (m.with_params({k: gruneisen for k in m.params if k.endswith(".gruneisen")}) for m in (ma, mb))
-    ma, mb = abeles_hosts(ma, mb, beta=normal_ratio, t_ref=t_ref)
-    return ma, mb, eps
+        ha, hb = (m.with_params({k: gruneisen for k in m.params if k.endswith(".gruneisen")}) for m in (ha, hb))
+    na, nb = abeles_hosts(ha, hb, beta=normal_ratio, t_ref=t_ref)
+    return {"eps": eps, "hosts": (ha, hb), "abeles": (na, nb)}
 
 
-def _series_model(a, b, x, template, ma, mb, eps, isotopes, extra_gamma, boundary_length, gruneisen,
-                  split_branches):
+def _series_model(a, b, x, template, setup, isotopes, extra_gamma, boundary_length, gruneisen, split_branches):
     from .disorder import virtual_crystal
 
-    mat, g = virtual_crystal(a, b, float(x), strain_epsilon=eps, isotopes=isotopes)
+    x = float(x)
+    mat, g = virtual_crystal(a, b, x, strain_epsilon=setup["eps"], isotopes=isotopes)
     if template is None:
-        return vc_model(ma, mb, mat, g + extra_gamma, float(x), boundary_length=boundary_length), g
+        ma, mb = setup["hosts"] if x in (0.0, 1.0) else setup["abeles"]
+        return vc_model(ma, mb, mat, g + extra_gamma, x, boundary_length=boundary_length), g
     return alloy_model(template, mat, g, extra_gamma=extra_gamma, boundary_length=boundary_length,
                        gruneisen=gruneisen, split_branches=split_branches), g
 
@@ -380,8 +385,10 @@ def alloy_sweep(host_a, host_b, fractions, temperature, *, template: LatticeMode
     -------
     AlloySweep
         With ``notes`` where the result leaves the checked range. Without a
-        template the normal-process rescaling of the hosts is done at each
-        temperature, so ``models`` are those of the first temperature.
+        template x = 0 and 1 are the hosts' default models (with
+        ``boundary_length`` if given); in between, Abeles' normal processes
+        are fixed on the hosts' reference samples at each temperature, so
+        ``models`` are those of the first temperature.
 
     References
     ----------
@@ -393,16 +400,15 @@ def alloy_sweep(host_a, host_b, fractions, temperature, *, template: LatticeMode
     if np.any((xs < 0) | (xs > 1)):
         raise ParameterError(f"fractions must lie in [0, 1], got {xs[(xs < 0) | (xs > 1)][0]!r}")
     T = np.atleast_1d(_check_T(temperature)).astype(float).ravel()
-    # Abeles' normal processes are fixed on the hosts at each temperature of the sweep (so that
-    # x = 0 and 1 reproduce the host models there): one set of models per temperature.
+    # Abeles' normal processes are fixed on the hosts' reference samples at each temperature of the
+    # sweep: one set of models per temperature.
     kappa = np.empty((xs.size, T.size))
     models, gammas = [], []
     for j, t in enumerate(T if template is None else T[:1]):
-        ma, mb, eps = _series_setup(a, b, template, strain_epsilon, normal_ratio, gruneisen, split_branches,
-                                    float(t))
+        setup = _series_setup(a, b, template, strain_epsilon, normal_ratio, gruneisen, split_branches, float(t))
         ms, gs = [], []
         for x in xs:
-            m, g = _series_model(a, b, x, template, ma, mb, eps, isotopes, extra_gamma, boundary_length,
+            m, g = _series_model(a, b, x, template, setup, isotopes, extra_gamma, boundary_length,
                                  gruneisen, split_branches)
             ms.append(m)
             gs.append(g + extra_gamma)
@@ -506,7 +512,7 @@ def iter_grain_alloy_map(model: LatticeModel | None, lengths, fractions, tempera
             raise ParameterError(f"mechanism {mechanism!r} of the template is not a Boundary")
         factor = bnd.effective_length / bnd.length
         applies = bnd.applies_to
-    ma, mb, eps = _series_setup(a, b, model, strain_epsilon, normal_ratio, None, None, T0)
+    setup = _series_setup(a, b, model, strain_epsilon, normal_ratio, None, None, T0)
     blocks = [slice(i, min(i + BLOCK_T, L.size)) for i in range(0, L.size, BLOCK_T)]
     row_mechs = [RowBoundary(lengths=tuple((L[sl] * factor).tolist()), name=mechanism, applies_to=applies)
                  for sl in blocks]
@@ -516,7 +522,7 @@ def iter_grain_alloy_map(model: LatticeModel | None, lengths, fractions, tempera
         out = np.empty((chunk.size, L.size))
         gam = np.empty(chunk.size)
         for i, x in enumerate(chunk):
-            m, g = _series_model(a, b, x, model, ma, mb, eps, isotopes, extra_gamma, None, None, None)
+            m, g = _series_model(a, b, x, model, setup, isotopes, extra_gamma, None, None, None)
             if model is None and mechanism not in m.mechanism_names:
                 raise ParameterError(f"the default models have no boundary mechanism named {mechanism!r}")
             base = m.without(mechanism)
