@@ -35,10 +35,11 @@ from .errors import ParameterError
 from .lattice import LatticeModel
 from .scattering import Boundary, Mechanism, Normal, PointDefect, Umklapp
 
-try:  # calib's one default model per material
+try:  # one default model per material, and its scope notes (kinetic.defaults)
     from .defaults import default_model as _calibrated_default
-except ImportError:  # pragma: no cover - TODO(lead): drop once kinetic/defaults.py is merged
-    _calibrated_default = None
+    from .defaults import scope_notes as _material_notes
+except ImportError:  # pragma: no cover - TODO(lead): drop this fallback once kinetic/defaults.py is merged
+    _calibrated_default = _material_notes = None
 
 __all__ = ["ABELES_BETA", "ABELES_EPSILON", "CHECKED_SERIES", "T_REF", "AbelesNormal", "abeles_hosts",
            "host_model", "scope_notes", "vc_model"]
@@ -107,7 +108,7 @@ def host_model(material) -> LatticeModel:
         missing and how to give it.
     """
     if _calibrated_default is not None:
-        return _calibrated_default(material.name)
+        return _calibrated_default(material)
     return _preset_model(material)
 
 
@@ -280,9 +281,10 @@ def vc_model(model_a: LatticeModel, model_b: LatticeModel, material, gamma: floa
 # honest scope: plain notes where a prediction leaves what was checked
 # ---------------------------------------------------------------------------------
 
-#: Smallest boundary length [m] compared with measurements (Si films and wires, 20-200 nm
-#: at 300 K, by the group-IV calibration); only Si's size effect was checked.
-SMALLEST_CHECKED_LENGTH = 20e-9
+#: Smallest boundary length [m] compared with size-effect measurements: the 37 nm Si
+#: nanowire of Li et al., Appl. Phys. Lett. 83, 2934 (2003) (group-IV calibration);
+#: only Si's size effect was checked. Used only without kinetic.defaults.
+SMALLEST_CHECKED_LENGTH = 37e-9
 
 
 def _span(lo, hi, unit="K"):
@@ -295,8 +297,7 @@ def _calibration(name):
     p = PRESETS.get(name) if isinstance(name, str) else None
     if p is None:
         return None, False
-    cal = (p.get("calibration") or {}).get("value")
-    return cal, True
+    return (p.get("calibration") or {}).get("value"), True
 
 
 def scope_notes(*, materials=(), temperature=None, lengths=None, series=None, fractions=None) -> list:
@@ -317,32 +318,29 @@ def scope_notes(*, materials=(), temperature=None, lengths=None, series=None, fr
     """
     notes = []
     T = None if temperature is None else np.atleast_1d(np.asarray(temperature, dtype=float))
-    for m in materials:
-        name = getattr(m, "name", m)
-        cal, is_preset = _calibration(name)
-        if not is_preset:
-            notes.append(f"{name}: not a preset, so its model is not calibrated on published data")
-            continue
-        if cal is None:
-            notes.append(f"{name}: preset without a calibration on a published k(T) table; "
-                         "its numbers are uncalibrated")
-            continue
-        if T is not None and "t_min" in cal:
-            lo, hi = float(cal["t_min"]), float(cal["t_max"])
-            out = T[(T < lo) | (T > hi)]
-            if out.size:
-                notes.append(f"{name}: temperature {_span(out.min(), out.max())} lies outside the "
-                             f"calibrated range {_span(lo, hi)}")
-    if lengths is not None:
-        L = np.atleast_1d(np.asarray(lengths, dtype=float))
-        names = [getattr(m, "name", m) for m in materials]
-        if np.any(L < SMALLEST_CHECKED_LENGTH):
-            notes.append(f"boundary lengths below {SMALLEST_CHECKED_LENGTH * 1e9:g} nm were not checked "
-                         "against measurements")
-        if any(n != "Si" for n in names):
-            notes.append("the grain-size (boundary) effect was checked against measurements for Si only; "
-                         "in hot-pressed material the effective boundary length is often far below the "
-                         "grain size (Meddins & Parrott, J. Phys. C 9, 1263, 1976)")
+    L = None if lengths is None else np.atleast_1d(np.asarray(lengths, dtype=float))
+    if _material_notes is not None:
+        for m in materials:
+            notes += _material_notes(m, temperature=T, boundary_length=None if L is None else float(L.min()))
+    else:  # development fallback, same wording as kinetic.defaults.scope_notes
+        for m in materials:
+            name = getattr(m, "name", m)
+            cal, _ = _calibration(name)
+            if cal is None:
+                notes.append(f"{name} has no calibration against measured k(T): the prediction is uncalibrated")
+                continue
+            if T is not None and (T.min() < cal["t_min"] or T.max() > cal["t_max"]):
+                notes.append(f"{name}: temperatures {_span(T.min(), T.max())} go outside the calibrated "
+                             f"range {_span(cal['t_min'], cal['t_max'])}")
+            if L is not None and name != "Si" and L.min() < 1e-4:
+                notes.append(f"{name}: boundary length {L.min():.3g} m was not checked against size-effect "
+                             "measurements (only bulk k(T) was)")
+            elif L is not None and name == "Si" and L.min() < SMALLEST_CHECKED_LENGTH:
+                notes.append(f"{name}: boundary length {L.min():.3g} m is below the smallest size checked "
+                             f"({SMALLEST_CHECKED_LENGTH:.3g} m, Li et al., Appl. Phys. Lett. 83, 2934, 2003)")
+    if L is not None and np.any(L < 1e-4) and any(getattr(m, "name", m) != "Si" for m in materials):
+        notes.append("in hot-pressed material the effective boundary length is often far below the grain "
+                     "size (Meddins & Parrott, J. Phys. C 9, 1263, 1976)")
     if series is not None and fractions is not None:
         xs = np.atleast_1d(np.asarray(fractions, dtype=float))
         inner = xs[(xs > 0) & (xs < 1)]

@@ -98,11 +98,7 @@ def _sweep_notes(model: LatticeModel, param: str, vals, T) -> list:
         except ParameterError:
             mats = (model.material,)  # an uncalibrated preset: say so
     lengths = vals if param.endswith(".length") else None
-    notes = scope_notes(materials=mats, temperature=T, lengths=lengths)
-    if lengths is not None and not mats and model.material != "Si":
-        notes = [n for n in notes if "checked against measurements for Si only" not in n] + [
-            "the grain-size (boundary) effect was checked against measurements for Si only"]
-    return notes
+    return scope_notes(materials=mats, temperature=T, lengths=lengths)
 
 
 def _values(name, values):
