@@ -175,8 +175,10 @@ def abeles_hosts(model_a: LatticeModel, model_b: LatticeModel, *, beta: float = 
                  t_ref: float = T_REF):
     """End-member models with Abeles' normal processes, each still matching its own kappa(t_ref).
 
-    A host model that already has normal processes is returned unchanged, and
-    with ``beta = 0`` both are.
+    A host's own normal-process term, if it has one, is replaced by Abeles'
+    form (1/tau_N = beta 1/tau_U), so that every alloy series is treated as the
+    published alloy model does; with ``beta = 0`` both hosts are returned
+    unchanged.
 
     Raises
     ------
@@ -189,10 +191,10 @@ def abeles_hosts(model_a: LatticeModel, model_b: LatticeModel, *, beta: float = 
         return model_a, model_b
     out = []
     for m in (model_a, model_b):
-        if any(not x.resistive for x in m.scattering):
-            out.append(m)
-            continue
         target = float(m.kappa(np.array([t_ref]))[0])
+        # the host's own normal-process term (if any) gives way to Abeles' form
+        m = m.without(*[x.name for x in m.scattering if not x.resistive]) if any(
+            not x.resistive for x in m.scattering) else m
 
         def with_n(log_s, m=m):
             return _add_normal(_scale_umklapp(m, float(np.exp(log_s))), beta)

@@ -330,13 +330,33 @@ def _series_setup(a, b, template, strain_epsilon, normal_ratio, gruneisen, split
     return {"eps": eps, "hosts": (ha, hb), "abeles": (na, nb)}
 
 
+def _end_member(host: LatticeModel, gamma: float, extra_gamma: float, boundary_length):
+    """A pure host of a series: its default model as it is (boundary and extra Gamma if asked).
+
+    Returns (model, Gamma): the host's own point-defect Gamma where it has one, else ``gamma``.
+    """
+    vals = {}
+    if boundary_length is not None:
+        vals.update({f"{m.name}.length": boundary_length for m in host.scattering if isinstance(m, Boundary)})
+    pd = [m for m in host.scattering if isinstance(m, PointDefect) and m.gamma is not None]
+    if pd:
+        gamma = pd[0].gamma
+        if extra_gamma:
+            vals[f"{pd[0].name}.gamma"] = pd[0].gamma + extra_gamma
+    elif extra_gamma:
+        raise ParameterError(f"the {host.material} default model has no point-defect Gamma to add extra_gamma to")
+    return (host.with_params(vals) if vals else host), gamma
+
+
 def _series_model(a, b, x, template, setup, isotopes, extra_gamma, boundary_length, gruneisen, split_branches):
     from .disorder import virtual_crystal
 
     x = float(x)
     mat, g = virtual_crystal(a, b, x, strain_epsilon=setup["eps"], isotopes=isotopes)
+    if template is None and x in (0.0, 1.0):
+        return _end_member(setup["hosts"][int(x)], g, extra_gamma, boundary_length)
     if template is None:
-        ma, mb = setup["hosts"] if x in (0.0, 1.0) else setup["abeles"]
+        ma, mb = setup["abeles"]
         return vc_model(ma, mb, mat, g + extra_gamma, x, boundary_length=boundary_length), g
     return alloy_model(template, mat, g, extra_gamma=extra_gamma, boundary_length=boundary_length,
                        gruneisen=gruneisen, split_branches=split_branches), g

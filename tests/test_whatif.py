@@ -88,15 +88,17 @@ def test_alloy_sweep_end_members_and_gamma():
     # Gamma at x: Si and Ge share one site, so the mass term is Gamma of the mixed site with the
     # natural isotopes of both (periodictable), plus Abeles' strain term with his epsilon = 39 for
     # Si-Ge (from memory); this replaces the earlier mean-mass formula + interpolated isotope Gamma
-    for x, g in zip(xs, sw.gamma):
-        _, ref = virtual_crystal(SI, GE, x, strain_epsilon=39.0)
-        assert g == pytest.approx(ref, rel=1e-12)
-    # x = 0 is the Si default model with the boundary set to 1 mm (Abeles' normal processes are
-    # re-fixed on the host, so it is the same conductivity)
+    _, ref = virtual_crystal(SI, GE, 0.3, strain_epsilon=39.0)
+    assert sw.gamma[1] == pytest.approx(ref, rel=1e-12)
+    # the end members are the hosts' default models, with their own (isotope) Gamma
     from kinetic.alloy import host_model
 
+    assert sw.gamma[0] == host_model(SI).params["point_defect.gamma"]
+    assert sw.gamma[2] == host_model(GE).params["point_defect.gamma"]
+    # x = 0 is the Si default model with the boundary set to 1 mm (Abeles' normal processes are
+    # not added to the pure hosts)
     direct_si = host_model(SI).with_params({"boundary.length": 1e-3})
-    assert sw.kappa[0, 0] == pytest.approx(float(direct_si.kappa(300.0)), rel=1e-6)
+    assert sw.kappa[0, 0] == pytest.approx(float(direct_si.kappa(300.0)), rel=1e-12)
     # alloy scattering lowers kappa well below both end members (Abeles 1963)
     assert sw.kappa[1, 0] < 0.2 * min(sw.kappa[0, 0], sw.kappa[2, 0])
 
@@ -134,7 +136,7 @@ def test_grain_alloy_map_without_template_and_bad_input():
     from kinetic.alloy import host_model
 
     ref = float(host_model(SI).with_params({"boundary.length": 1e-5}).kappa(300.0))
-    assert mp.kappa[0, 1] == pytest.approx(ref, rel=1e-6)
+    assert mp.kappa[0, 1] == pytest.approx(ref, rel=1e-12)
     with pytest.raises(ParameterError, match="single number"):
         grain_alloy_map(None, [1e-6], [0.5], [300.0, 400.0], host_a=SI, host_b=GE)
     with pytest.raises(ParameterError, match="not a Boundary"):
