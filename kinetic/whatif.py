@@ -19,10 +19,11 @@ zT against doping lives in :mod:`kinetic.zt_sweep` (re-exported here).
 Speed of the map. One ``kappa`` call at one temperature costs ~0.6 ms (it is
 dominated by per-call overhead, not by the quadrature), so 40,000 separate
 models would take ~25 s. The map instead evaluates the grain sizes of one
-composition together: the temperature array holds the same T once per grain
-size, and the boundary rate is a row-wise mechanism (:class:`RowBoundary`)
-whose row i uses length i, in blocks of the engine's 80 rows
-(:data:`kinetic.lattice.BLOCK_T`), so a 200 x 200 map costs 600 calls
+composition together: the boundary rate is a row-wise mechanism
+(:class:`RowBoundary`) whose row i uses length i, and the engine's Callaway
+integrals are evaluated once at the map's temperature with the quadrature
+nodes and every other rate in one row, broadcast over the lengths, so a
+200 x 200 map costs 200 integral evaluations per branch
 (benchmarks/bench_whatif.py). :func:`iter_grain_alloy_map` streams a large
 map in chunks of fractions.
 """
@@ -37,7 +38,7 @@ from scipy.constants import atomic_mass as _u
 from ._validate import as_float_array, positive, temperatures as _check_T
 from .errors import ParameterError
 from .alloy import ABELES_BETA, ABELES_EPSILON, abeles_hosts, host_model, scope_notes, vc_model
-from .lattice import BLOCK_T, LatticeModel
+from .lattice import LatticeModel
 from .scattering import Boundary, Mechanism, PointDefect, Umklapp
 from .zt_sweep import DopingSweep, zt_vs_fermi_level
 
@@ -452,12 +453,11 @@ def alloy_sweep(host_a, host_b, fractions, temperature, *, template: LatticeMode
 
 @dataclass(frozen=True)
 class RowBoundary(Mechanism):
-    """Boundary scattering with one length per temperature row (for vectorised maps).
+    """Boundary scattering with one length per row (for vectorised maps).
 
-    ``rate`` returns v_g / L_i on row i: use it with a temperature array that
-    holds one temperature per length, e.g. ``np.full(n, T0)``, of at most
-    :data:`kinetic.lattice.BLOCK_T` rows (the engine's block). Internal to
-    :func:`grain_alloy_map`; it has no fit parameters and is not saved in records.
+    ``rate`` returns v_g / L_i on row i, broadcast against the frequency nodes:
+    :func:`grain_alloy_map` evaluates the engine's integrals at one temperature
+    with these rows. Internal; it has no fit parameters and is not saved in records.
     """
 
     lengths: tuple = (1e-6,)
@@ -514,6 +514,27 @@ def _map_inputs(lengths, fractions, temperature):
     return L, xs, float(T0[0])
 
 
+#: Boundary lengths evaluated together in one engine call of :func:`grain_alloy_map` (bounds
+#: the (lengths x quadrature nodes) arrays to ~1.4 MB each).
+LENGTHS_PER_CALL = 1024
+
+
+def _kappa_over_lengths(model: LatticeModel, T0: float) -> np.ndarray:
+    """kappa [W/m/K] at one temperature for each length of the model's RowBoundary.
+
+    The engine's Callaway integrals are evaluated once at ``T0``: quadrature nodes, Planck
+    weights and every other rate come in one row, the RowBoundary rate v_g / L_i in one row
+    per length, and the integrals broadcast over the lengths (the same arithmetic as
+    ``model.kappa`` on a model with a single boundary length; tests/test_alloys.py compares).
+    """
+    T1 = np.array([float(T0)])
+    total = 0.0
+    for br in model.branches:
+        I1, I2, I3, _ = model._branch_integrals(br, T1)
+        total = total + I1 + np.divide(I2 * I2, I3, out=np.zeros_like(I1), where=I3 > 0)
+    return total
+
+
 def iter_grain_alloy_map(model: LatticeModel | None, lengths, fractions, temperature: float, *, host_a, host_b,
                          strain_epsilon: float | None = None, extra_gamma: float = 0.0, isotopes: bool = True,
                          mechanism: str = "boundary", normal_ratio: float = ABELES_BETA, rows: int = 16):
@@ -522,7 +543,8 @@ def iter_grain_alloy_map(model: LatticeModel | None, lengths, fractions, tempera
     Same arguments as :func:`grain_alloy_map`; ``rows`` fractions per chunk.
     Yields ``(start, kappa_rows, gamma_rows)``: ``kappa_rows[i, j]`` is kappa
     [W/m/K] at fraction ``start + i`` and length j. Memory is one chunk of
-    ``rows x len(lengths)`` numbers plus one engine block (80 lengths) at a time.
+    ``rows x len(lengths)`` numbers plus the integrals of up to :data:`LENGTHS_PER_CALL`
+    lengths at a time.
     """
     a, b = _host(host_a), _host(host_b)
     L, xs, T0 = _map_inputs(lengths, fractions, temperature)
@@ -537,10 +559,9 @@ def iter_grain_alloy_map(model: LatticeModel | None, lengths, fractions, tempera
         factor = bnd.effective_length / bnd.length
         applies = bnd.applies_to
     setup = _series_setup(a, b, model, strain_epsilon, normal_ratio, None, None, T0)
-    blocks = [slice(i, min(i + BLOCK_T, L.size)) for i in range(0, L.size, BLOCK_T)]
+    blocks = [slice(i, min(i + LENGTHS_PER_CALL, L.size)) for i in range(0, L.size, LENGTHS_PER_CALL)]
     row_mechs = [RowBoundary(lengths=tuple((L[sl] * factor).tolist()), name=mechanism, applies_to=applies)
                  for sl in blocks]
-    Trows = [np.full(sl.stop - sl.start, T0) for sl in blocks]
     for start in range(0, xs.size, rows):
         chunk = xs[start:start + rows]
         out = np.empty((chunk.size, L.size))
@@ -550,8 +571,8 @@ def iter_grain_alloy_map(model: LatticeModel | None, lengths, fractions, tempera
             if model is None and mechanism not in m.mechanism_names:
                 raise ParameterError(f"the default models have no boundary mechanism named {mechanism!r}")
             base = m.without(mechanism)
-            for sl, rm, Tr in zip(blocks, row_mechs, Trows):
-                out[i, sl] = base.with_mechanism(rm).kappa(Tr)
+            for sl, rm in zip(blocks, row_mechs):
+                out[i, sl] = _kappa_over_lengths(base.with_mechanism(rm), T0)
             gam[i] = g + extra_gamma
         yield start, out, gam
 
@@ -582,9 +603,8 @@ def grain_alloy_map(model: LatticeModel | None, lengths, fractions, temperature:
     -------
     GrainAlloyMap
         ``kappa[i, j]`` for fraction i and length j; equal (to rounding) to
-        building each model separately. The lengths are evaluated in blocks
-        of the engine's size (:data:`kinetic.lattice.BLOCK_T`); for maps that
-        should not be held in memory at once use :func:`iter_grain_alloy_map`.
+        building each model separately. For maps that should not be held in
+        memory at once use :func:`iter_grain_alloy_map`.
     """
     L, xs, T0 = _map_inputs(lengths, fractions, temperature)
     out = np.empty((xs.size, L.size))
