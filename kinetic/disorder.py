@@ -20,6 +20,7 @@ package.
 from __future__ import annotations
 
 import re
+from functools import lru_cache
 from typing import Mapping, Sequence
 
 import numpy as np
@@ -35,6 +36,7 @@ __all__ = [
     "compound_gamma",
     "material_gamma",
     "alloy_gamma",
+    "substitution_site",
     "virtual_crystal",
 ]
 
@@ -61,6 +63,11 @@ def species_mass(species: str) -> float:
     """
     if not isinstance(species, str):
         raise ParameterError(f"species must be a string such as 'Si' or '28Si', got {species!r}")
+    return _species_mass(species)
+
+
+@lru_cache(maxsize=1024)
+def _species_mass(species: str) -> float:
     m = _ISOTOPE.match(species.strip())
     if m:
         a, sym = (m.group(1), m.group(2)) if m.group(1) else (m.group(4), m.group(3))
@@ -74,6 +81,7 @@ def species_mass(species: str) -> float:
     return float(_element(species.strip()).mass)
 
 
+@lru_cache(maxsize=256)
 def _natural_isotopes(symbol: str):
     el = _element(symbol)
     pairs = [(el[a].mass, el[a].abundance) for a in el.isotopes if el[a].abundance]
@@ -81,7 +89,10 @@ def _natural_isotopes(symbol: str):
         raise ParameterError(f"periodictable lists no natural isotopes for {symbol!r}")
     m = np.array([p[0] for p in pairs], dtype=float)
     f = np.array([p[1] for p in pairs], dtype=float)
-    return m, f / f.sum()
+    m.setflags(write=False)
+    f = f / f.sum()
+    f.setflags(write=False)
+    return m, f
 
 
 def _gamma(masses, fractions) -> float:
@@ -224,15 +235,56 @@ def alloy_gamma(x, mass_a: float, mass_b: float, *, delta_a: float | None = None
     return g if g.ndim else float(g)
 
 
+def substitution_site(composition_a: Mapping, composition_b: Mapping):
+    """The crystal site on which B replaces A, for A(1-x)B(x) of two compounds.
+
+    Two compounds of the same formula type (``{"Mg": 2, "Si": 1}`` and
+    ``{"Mg": 2, "Sn": 1}``; or two elements) that differ by exactly one element
+    with the same multiplicity form a solid solution on that element's
+    sublattice. Returns ``(shared, multiplicity, element_a, element_b)`` with
+    ``shared`` the {element: multiplicity} of the common sublattices, or None
+    when the two compositions are not of that kind.
+
+    Examples
+    --------
+    >>> substitution_site({"Mg": 2, "Si": 1}, {"Mg": 2, "Sn": 1})
+    ({'Mg': 2.0}, 1.0, 'Si', 'Sn')
+    >>> substitution_site({"Si": 1}, {"Ge": 1})
+    ({}, 1.0, 'Si', 'Ge')
+    """
+    if not composition_a or not composition_b:
+        return None
+    a = {k: float(v) for k, v in composition_a.items()}
+    b = {k: float(v) for k, v in composition_b.items()}
+    only_a = [k for k in a if k not in b]
+    only_b = [k for k in b if k not in a]
+    if len(only_a) != 1 or len(only_b) != 1 or a[only_a[0]] != b[only_b[0]]:
+        return None
+    shared = {k: v for k, v in a.items() if k in b}
+    if any(b[k] != v for k, v in shared.items()):
+        return None
+    return shared, a[only_a[0]], only_a[0], only_b[0]
+
+
 def virtual_crystal(host_a, host_b, x: float, *, strain_epsilon: float = 0.0, isotopes: bool = True,
                     name: str | None = None):
     """Virtual-crystal alloy A(1-x)B(x) of two materials.
 
     Host properties are interpolated linearly in x (Vegard's law for the
     volume per atom; the same linear rule, common practice, for masses, sound
-    velocities, Debye temperature and Grüneisen parameter). Gamma is Abeles'
-    alloy term plus, if ``isotopes``, the interpolated natural-isotope Gamma of
-    the end members.
+    velocities and Debye temperature). The thermodynamic Grueneisen parameter
+    is not carried over (it must not enter a conductivity model; the Umklapp
+    strength comes from the hosts' calibrated models).
+
+    Gamma. When the two hosts differ by one element on one sublattice (Si-Ge;
+    Mg2Si-Mg2Sn, Si and Sn on the anion site) Gamma is the per-atom Gamma of
+    the compound with that site mixed, :func:`compound_gamma` (Slack 1957 as
+    written by Yang, Meisner & Chen, APL 85, 1140, 2004, Eq. 2), natural isotopes
+    included if ``isotopes``; the strain term of Abeles (Phys. Rev. 131, 1906,
+    1963, Eq. 7), x (1 - x) epsilon (d delta / delta)^2 with delta the cube root
+    of the volume per atom, is weighted by the site's share of atoms like the
+    mass term. Otherwise Abeles' formula on the mean atomic masses
+    (:func:`alloy_gamma`) plus the interpolated natural-isotope Gamma is used.
 
     Returns
     -------
@@ -249,6 +301,7 @@ def virtual_crystal(host_a, host_b, x: float, *, strain_epsilon: float = 0.0, is
     from .materials import Material
 
     va, vb = host_a.volume_per_atom, host_b.volume_per_atom
+    site = substitution_site(host_a.composition, host_b.composition)
     mat = Material(
         name=name or f"{host_a.name}(1-x){host_b.name}(x), x={x:g}",
         atomic_mass=lin(host_a.atomic_mass, host_b.atomic_mass),
@@ -257,12 +310,22 @@ def virtual_crystal(host_a, host_b, x: float, *, strain_epsilon: float = 0.0, is
         velocity_longitudinal=lin(host_a.velocity_longitudinal, host_b.velocity_longitudinal),
         velocity_transverse=lin(host_a.velocity_transverse, host_b.velocity_transverse),
         velocity_debye=lin(host_a.velocity_debye, host_b.velocity_debye),
-        gruneisen=lin(host_a.gruneisen, host_b.gruneisen),
         atoms_per_cell=host_a.atoms_per_cell,
         sources={"all": f"virtual crystal: linear interpolation between {host_a.name} and {host_b.name}"},
     )
+    eps = nonnegative("strain_epsilon", strain_epsilon)
+    if site is not None:
+        shared, mult, el_a, el_b = site
+        mixed = {k: v for k, v in ((el_a, 1 - x), (el_b, x)) if v > 0}
+        sites = [(m, el) for el, m in shared.items()] + [(mult, mixed)]
+        g = compound_gamma(sites, isotopes=isotopes)
+        if eps > 0:
+            weight = mult / (mult + sum(shared.values()))
+            d_a, d_b = va ** (1 / 3), vb ** (1 / 3)
+            g += weight * x * (1 - x) * eps * ((d_b - d_a) / lin(d_a, d_b)) ** 2
+        return mat, float(g)
     g = alloy_gamma(x, host_a.atomic_mass, host_b.atomic_mass, delta_a=va ** (1 / 3), delta_b=vb ** (1 / 3),
-                    strain_epsilon=strain_epsilon)
+                    strain_epsilon=eps)
     if isotopes:
         try:
             g += (1 - x) * material_gamma(host_a) + x * material_gamma(host_b)

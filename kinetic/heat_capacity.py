@@ -96,13 +96,11 @@ def debye(material, temperature) -> np.ndarray:
     """Debye specific heat C_V(T) per mass [J kg^-1 K^-1] of a preset or Material.
 
     The temperature dependence is the engine's :meth:`LatticeModel.heat_capacity`
-    for the material's averaged Debye branch (Debye temperature of the preset).
-    That branch holds 3 q_max^3 / (6 pi^2) modes per volume, which equals 3 n
-    only when the preset's Debye temperature and sound velocity satisfy Debye's
-    relation exactly (Ge: 1.5 % more); the value is therefore normalised to
-    3 N k_B at high temperature (the engine's value at 1000 theta_D, where the
-    Debye function differs from 1 by 5e-8), so that it tends to
-    :func:`dulong_petit` for T >> theta_D, as Debye's model does.
+    for the material's averaged Debye branch, whose Debye temperature is
+    hbar v_D q_D / kB (exactly 3 modes per atom; within 0.5 % of the preset's
+    tabulated value). The value is normalised to 3 N k_B at high temperature
+    (the engine's value at 1000 theta_D, where the Debye function differs from
+    1 by 5e-8), so that it tends to :func:`dulong_petit` for T >> theta_D.
     """
     mat = _material(material)
     T = np.asarray(temperature, dtype=float)
@@ -111,7 +109,7 @@ def debye(material, temperature) -> np.ndarray:
     # the boundary term only makes the model valid; it does not enter C_V
     model = LatticeModel(mat.branches(), [Boundary(1e-3)], material=mat.name)
     c_v = np.asarray(model.heat_capacity(T), dtype=float)             # [J m^-3 K^-1]
-    c_inf = float(model.heat_capacity(1000.0 * mat.debye_temperature))
+    c_inf = float(model.heat_capacity(1000.0 * mat.branches()[0].debye_temperature))
     return c_v / c_inf * dulong_petit(mat)
 
 
@@ -135,7 +133,7 @@ def compare_heat_capacity(material, temperature, measured=None) -> dict[str, np.
 
     >>> c = compare_heat_capacity("Ge", [300.0, 600.0])
     >>> [round(float(x), 3) for x in c["debye"] / c["dulong-petit"]]
-    [0.926, 0.981]
+    [0.927, 0.981]
     """
     T = np.atleast_1d(np.asarray(temperature, dtype=float))
     out = {"dulong-petit": np.full(T.shape, dulong_petit(material))}

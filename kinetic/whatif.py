@@ -11,26 +11,36 @@
 * :func:`zt_vs_fermi_level` -- zT against the reduced Fermi level in the
   single-parabolic-band model (see its docstring for the assumptions).
 
+Alloys start from the hosts' default (calibrated) models; the virtual crystal
+and Abeles' normal processes are in :mod:`kinetic.alloy`. Results carry
+``notes`` where they leave what was checked (:func:`kinetic.alloy.scope_notes`).
+zT against doping lives in :mod:`kinetic.zt_sweep` (re-exported here).
+
 Speed of the map. One ``kappa`` call at one temperature costs ~0.6 ms (it is
-dominated by per-call overhead, not by the quadrature), so 2500 separate
-models would take ~1.5 s. The map instead evaluates all grain sizes of one
-composition in a single call: the temperature array holds the same T once
-per grain size, and the boundary rate is a row-wise mechanism
-(:class:`RowBoundary`) whose row i uses length i. The engine's integrals are
-already vectorised over rows (temperatures), so a 50 x 50 map costs 50 calls.
+dominated by per-call overhead, not by the quadrature), so 40,000 separate
+models would take ~25 s. The map instead evaluates the grain sizes of one
+composition together: the boundary rate is a row-wise mechanism
+(:class:`RowBoundary`) whose row i uses length i, and the engine's Callaway
+integrals are evaluated once at the map's temperature with the quadrature
+nodes and every other rate in one row, broadcast over the lengths, so a
+200 x 200 map costs 200 integral evaluations per branch
+(benchmarks/bench_whatif.py). :func:`iter_grain_alloy_map` streams a large
+map in chunks of fractions.
 """
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from typing import ClassVar
 
 import numpy as np
-from scipy.constants import atomic_mass as _u, e as _e, h as _h, hbar as _hbar, k as _kB, m_e as _me
+from scipy.constants import atomic_mass as _u
 
 from ._validate import as_float_array, positive, temperatures as _check_T
 from .errors import ParameterError
+from .alloy import ABELES_BETA, ABELES_EPSILON, abeles_hosts, host_model, scope_notes, vc_model
 from .lattice import LatticeModel
 from .scattering import Boundary, Mechanism, PointDefect, Umklapp
+from .zt_sweep import DopingSweep, zt_vs_fermi_level
 
 __all__ = [
     "Sweep",
@@ -43,6 +53,7 @@ __all__ = [
     "alloy_model",
     "alloy_sweep",
     "grain_alloy_map",
+    "iter_grain_alloy_map",
     "zt_vs_fermi_level",
 ]
 
@@ -68,6 +79,10 @@ class Sweep:
     lower, upper : ndarray (n, m) or None
         Confidence band from the fit result's covariance (None without a result).
     level : float or None
+    notes : list of str
+        Where the prediction leaves what was checked: a preset's default
+        model outside its calibrated temperature range, boundary lengths
+        below those checked (see :func:`kinetic.alloy.scope_notes`).
     """
 
     param: str
@@ -77,6 +92,22 @@ class Sweep:
     lower: np.ndarray | None = None
     upper: np.ndarray | None = None
     level: float | None = None
+    notes: list = field(default_factory=list)
+
+
+def _sweep_notes(model: LatticeModel, param: str, vals, T) -> list:
+    """Scope notes for a sweep: calibration notes only when ``model`` is a preset's default model."""
+    from .presets import PRESETS
+
+    mats = ()
+    if model.material in PRESETS:
+        try:
+            if model == host_model(_host(model.material)):
+                mats = (model.material,)
+        except ParameterError:
+            mats = (model.material,)  # an uncalibrated preset: say so
+    lengths = vals if param.endswith(".length") else None
+    return scope_notes(materials=mats, temperature=T, lengths=lengths)
 
 
 def _values(name, values):
@@ -132,8 +163,9 @@ def sweep(model: LatticeModel | None, param: str, values, temperature, result=No
     T = np.atleast_1d(_check_T(temperature)).astype(float).ravel()
     models = [model.with_params({param: float(v)}) for v in vals]
     kappa = np.array([m.kappa(T) for m in models])
+    notes = _sweep_notes(model, param, vals, T)
     if result is None:
-        return Sweep(param, vals, T, kappa)
+        return Sweep(param, vals, T, kappa, notes=notes)
     level = _level(level)
     i = _sample_index(result, sample)
     keep = [j for j, f in enumerate(result.free) if f.param != param and i in f.samples]
@@ -153,7 +185,7 @@ def sweep(model: LatticeModel | None, param: str, values, temperature, result=No
         with np.errstate(over="ignore"):
             lo[n] = np.exp(lk - q * sd)
             hi[n] = np.exp(lk + q * sd)
-    return Sweep(param, vals, T, kappa, lo, hi, level)
+    return Sweep(param, vals, T, kappa, lo, hi, level, notes)
 
 
 def grain_size_sweep(model: LatticeModel | None, lengths, temperature, result=None, *, mechanism: str = "boundary",
@@ -192,7 +224,10 @@ def alloy_model(template: LatticeModel | None, material, gamma: float, *, extra_
     the branch velocity and Debye temperature follow the host); the branches
     come from ``material`` (split like the template's). Without a template the
     model is boundary (``boundary_length``, default 1 mm) + point defect +
-    Umklapp (``gruneisen``, default the material's).
+    Umklapp with the CALIBRATED Grüneisen parameter ``gruneisen``, which must
+    then be given (the thermodynamic gamma of a preset does not give the
+    conductivity; :func:`alloy_sweep` without a template starts from the
+    hosts' calibrated default models instead).
 
     Parameters
     ----------
@@ -206,14 +241,24 @@ def alloy_model(template: LatticeModel | None, material, gamma: float, *, extra_
     boundary_length : float, optional
         Overrides the template's boundary length [m].
     gruneisen : float, optional
-        Overrides the Grüneisen parameter.
+        Overrides the Grüneisen parameter; required without a template.
     b : float
         Umklapp exponent divisor when no template.
     split_branches : bool, optional
         Default: as the template (two branches named L and T), else False.
+
+    Raises
+    ------
+    ParameterError
+        No template and no ``gruneisen``.
     """
     g = float(gamma) + float(extra_gamma)
     if template is None:
+        if gruneisen is None:
+            raise ParameterError(
+                "alloy_model without a template needs gruneisen= (the calibrated Umklapp gamma of the "
+                "model, not the thermodynamic one); or pass template=, or use alloy_sweep, which starts "
+                "from the hosts' default models")
         split = bool(split_branches)
         sc = [Boundary(1e-3 if boundary_length is None else boundary_length),
               PointDefect.from_gamma(g, material.volume_per_atom),
@@ -256,6 +301,8 @@ class AlloySweep:
     gamma : ndarray (n,)
         Point-defect Gamma used (alloy + isotopes + extra).
     models : list of LatticeModel
+    notes : list of str
+        Where the prediction leaves what was checked (see :func:`kinetic.alloy.scope_notes`).
     """
 
     fractions: np.ndarray
@@ -263,6 +310,7 @@ class AlloySweep:
     kappa: np.ndarray
     gamma: np.ndarray
     models: list
+    notes: list = field(default_factory=list)
 
 
 def _host(m):
@@ -271,16 +319,71 @@ def _host(m):
     return materials.get(m) if isinstance(m, str) else m
 
 
+def _series_setup(a, b, template, strain_epsilon, normal_ratio, gruneisen, split_branches, t_ref):
+    """Epsilon and, without a template, the host models: plain (for x = 0, 1) and with Abeles' N.
+
+    Abeles' normal processes are fixed on each host's reference sample (its default model) at
+    ``t_ref``; the end members x = 0 and 1 themselves are the plain host models.
+    """
+    eps = ABELES_EPSILON.get((a.name, b.name), 0.0) if strain_epsilon is None else strain_epsilon
+    if template is not None:
+        return {"eps": eps}
+    ha, hb = host_model(a), host_model(b)
+    if split_branches and len(ha.branches) == 1:
+        raise ParameterError(
+            f"the default models of {a.name} and {b.name} use one averaged branch; pass template= "
+            "(a model with split branches) for a split-branch series")
+    if gruneisen is not None:
+        ha, hb = (m.with_params({k: gruneisen for k in m.params if k.endswith(".gruneisen")}) for m in (ha, hb))
+    na, nb = abeles_hosts(ha, hb, beta=normal_ratio, t_ref=t_ref)
+    return {"eps": eps, "hosts": (ha, hb), "abeles": (na, nb)}
+
+
+def _end_member(host: LatticeModel, gamma: float, extra_gamma: float, boundary_length):
+    """A pure host of a series: its default model as it is (boundary and extra Gamma if asked).
+
+    Returns (model, Gamma): the host's own point-defect Gamma where it has one, else ``gamma``.
+    """
+    vals = {}
+    if boundary_length is not None:
+        vals.update({f"{m.name}.length": boundary_length for m in host.scattering if isinstance(m, Boundary)})
+    pd = [m for m in host.scattering if isinstance(m, PointDefect) and m.gamma is not None]
+    if pd:
+        gamma = pd[0].gamma
+        if extra_gamma:
+            vals[f"{pd[0].name}.gamma"] = pd[0].gamma + extra_gamma
+    elif extra_gamma:
+        raise ParameterError(f"the {host.material} default model has no point-defect Gamma to add extra_gamma to")
+    return (host.with_params(vals) if vals else host), gamma
+
+
+def _series_model(a, b, x, template, setup, isotopes, extra_gamma, boundary_length, gruneisen, split_branches):
+    from .disorder import virtual_crystal
+
+    x = float(x)
+    mat, g = virtual_crystal(a, b, x, strain_epsilon=setup["eps"], isotopes=isotopes)
+    if template is None and x in (0.0, 1.0):
+        return _end_member(setup["hosts"][int(x)], g, extra_gamma, boundary_length)
+    if template is None:
+        ma, mb = setup["abeles"]
+        return vc_model(ma, mb, mat, g + extra_gamma, x, boundary_length=boundary_length), g
+    return alloy_model(template, mat, g, extra_gamma=extra_gamma, boundary_length=boundary_length,
+                       gruneisen=gruneisen, split_branches=split_branches), g
+
+
 def alloy_sweep(host_a, host_b, fractions, temperature, *, template: LatticeModel | None = None,
-                strain_epsilon: float = 0.0, extra_gamma: float = 0.0, isotopes: bool = True,
+                strain_epsilon: float | None = None, extra_gamma: float = 0.0, isotopes: bool = True,
                 boundary_length: float | None = None, gruneisen: float | None = None,
-                split_branches: bool | None = None) -> AlloySweep:
+                split_branches: bool | None = None, normal_ratio: float = ABELES_BETA) -> AlloySweep:
     """Lattice conductivity of A(1-x)B(x) against x in the virtual crystal.
 
-    For each x, :func:`kinetic.disorder.virtual_crystal` gives the host
-    (linear interpolation of mass, volume, velocities, Debye temperature,
-    Grüneisen parameter) and Abeles' Gamma(x) (plus natural-isotope Gamma if
-    ``isotopes``); :func:`alloy_model` builds the model.
+    Without a template the series starts from the default (calibrated
+    reference-sample) models of the two hosts, so x = 0 and x = 1 give each
+    host's calibrated conductivity; in between, the virtual crystal of
+    :mod:`kinetic.alloy` interpolates branches and scattering parameters and
+    uses Abeles' Gamma(x) (:func:`kinetic.disorder.virtual_crystal`) with
+    Abeles' normal processes (ratio ``normal_ratio``, Callaway's correction).
+    With a template, its mechanisms are kept (:func:`alloy_model`).
 
     Parameters
     ----------
@@ -292,43 +395,69 @@ def alloy_sweep(host_a, host_b, fractions, temperature, *, template: LatticeMode
         [K]
     template : LatticeModel, optional
         Mechanisms to keep (e.g. a fitted model of one end member).
-    strain_epsilon : float
-        Abeles' strain parameter epsilon (0: mass term only).
+    strain_epsilon : float, optional
+        Abeles' strain parameter epsilon; default Abeles' 39 for Si-Ge
+        (from memory), else 0 (mass term only).
     extra_gamma, boundary_length, gruneisen, split_branches
-        See :func:`alloy_model`.
+        See :func:`alloy_model`; without a template ``gruneisen`` overrides
+        both hosts' calibrated Umklapp gamma, and ``split_branches=True`` is
+        refused when the default models have one averaged branch.
+    normal_ratio : float
+        Abeles' beta = tau_U / tau_N for hosts whose default model has no
+        normal processes (0: none). Default 2.5 (Abeles 1963 for Si-Ge, from memory).
 
     Returns
     -------
     AlloySweep
+        With ``notes`` where the result leaves the checked range. Without a
+        template x = 0 and 1 are the hosts' default models (with
+        ``boundary_length`` if given); in between, Abeles' normal processes
+        are fixed on the hosts' reference samples at each temperature, so
+        ``models`` are those of the first temperature.
 
     References
     ----------
-    Abeles, Phys. Rev. 131, 1906 (1963); Klemens, Proc. Phys. Soc. A 68, 1113 (1955).
+    Abeles, Phys. Rev. 131, 1906 (1963); Klemens, Proc. Phys. Soc. A 68, 1113 (1955);
+    Callaway, Phys. Rev. 113, 1046 (1959).
     """
-    from .disorder import virtual_crystal
-
     a, b = _host(host_a), _host(host_b)
     xs = _values("fractions", fractions)
     if np.any((xs < 0) | (xs > 1)):
         raise ParameterError(f"fractions must lie in [0, 1], got {xs[(xs < 0) | (xs > 1)][0]!r}")
     T = np.atleast_1d(_check_T(temperature)).astype(float).ravel()
+    # Abeles' normal processes are fixed on the hosts' reference samples at each temperature of the
+    # sweep: one set of models per temperature.
+    kappa = np.empty((xs.size, T.size))
     models, gammas = [], []
-    for x in xs:
-        mat, g = virtual_crystal(a, b, float(x), strain_epsilon=strain_epsilon, isotopes=isotopes)
-        models.append(alloy_model(template, mat, g, extra_gamma=extra_gamma, boundary_length=boundary_length,
-                                  gruneisen=gruneisen, split_branches=split_branches))
-        gammas.append(g + extra_gamma)
-    kappa = np.array([m.kappa(T) for m in models])
-    return AlloySweep(xs, T, kappa, np.array(gammas), models)
+    for j, t in enumerate(T if template is None else T[:1]):
+        setup = _series_setup(a, b, template, strain_epsilon, normal_ratio, gruneisen, split_branches, float(t))
+        ms, gs = [], []
+        for x in xs:
+            m, g = _series_model(a, b, x, template, setup, isotopes, extra_gamma, boundary_length,
+                                 gruneisen, split_branches)
+            ms.append(m)
+            gs.append(g + extra_gamma)
+        if template is None:
+            kappa[:, j] = [float(m.kappa(np.array([t]))[0]) for m in ms]
+        else:
+            kappa[:] = np.array([m.kappa(T) for m in ms])
+        if j == 0:
+            models, gammas = ms, gs
+    notes = scope_notes(materials=(a, b) if template is None else (), temperature=T,
+                        lengths=None if boundary_length is None else [boundary_length],
+                        series=(a.name, b.name), fractions=xs)
+    if template is not None:
+        notes.insert(0, "started from the given template model, not the hosts' calibrated default models")
+    return AlloySweep(xs, T, kappa, np.array(gammas), models, notes)
 
 
 @dataclass(frozen=True)
 class RowBoundary(Mechanism):
-    """Boundary scattering with one length per temperature row (for vectorised maps).
+    """Boundary scattering with one length per row (for vectorised maps).
 
-    ``rate`` returns v_g / L_i on row i: use it with a temperature array that
-    holds one temperature per length, e.g. ``np.full(n, T0)``. Internal to
-    :func:`grain_alloy_map`; it has no fit parameters and is not saved in records.
+    ``rate`` returns v_g / L_i on row i, broadcast against the frequency nodes:
+    :func:`grain_alloy_map` evaluates the engine's integrals at one temperature
+    with these rows. Internal; it has no fit parameters and is not saved in records.
     """
 
     lengths: tuple = (1e-6,)
@@ -362,6 +491,8 @@ class GrainAlloyMap:
     kappa : ndarray (nx, nl)
         [W/m/K]; row = fraction, column = length.
     gamma : ndarray (nx,)
+    notes : list of str
+        Where the prediction leaves the checked range.
     """
 
     lengths: np.ndarray
@@ -369,38 +500,10 @@ class GrainAlloyMap:
     temperature: float
     kappa: np.ndarray
     gamma: np.ndarray
+    notes: list = field(default_factory=list)
 
 
-def grain_alloy_map(model: LatticeModel | None, lengths, fractions, temperature: float, *, host_a, host_b,
-                    strain_epsilon: float = 0.0, extra_gamma: float = 0.0, isotopes: bool = True,
-                    mechanism: str = "boundary") -> GrainAlloyMap:
-    """kappa at one temperature on a grid of boundary lengths x alloy fractions.
-
-    Parameters
-    ----------
-    model : LatticeModel or None
-        Template (see :func:`alloy_model`); must have a boundary mechanism
-        named ``mechanism`` if given (its specularity is kept). None: the
-        default boundary + point defect + Umklapp model.
-    lengths : array_like
-        Boundary lengths [m], > 0.
-    fractions : array_like
-        x in [0, 1].
-    temperature : float
-        [K]
-    host_a, host_b : Material or preset name
-    strain_epsilon, extra_gamma, isotopes
-        See :func:`alloy_sweep`.
-
-    Returns
-    -------
-    GrainAlloyMap
-        ``kappa[i, j]`` for fraction i and length j; equal (to rounding) to
-        building each model separately.
-    """
-    from .disorder import virtual_crystal
-
-    a, b = _host(host_a), _host(host_b)
+def _map_inputs(lengths, fractions, temperature):
     L = np.atleast_1d(positive("lengths", lengths, unit="m")).astype(float).ravel()
     xs = _values("fractions", fractions)
     if np.any((xs < 0) | (xs > 1)):
@@ -408,10 +511,46 @@ def grain_alloy_map(model: LatticeModel | None, lengths, fractions, temperature:
     T0 = np.atleast_1d(_check_T(temperature)).astype(float)
     if T0.size != 1:
         raise ParameterError(f"temperature must be a single number [K], got {T0.size} values")
-    T0 = float(T0[0])
-    Trow = np.full(L.size, T0)
-    out = np.empty((xs.size, L.size))
-    gam = np.empty(xs.size)
+    return L, xs, float(T0[0])
+
+
+#: Boundary lengths evaluated together in one engine call of :func:`grain_alloy_map` (bounds
+#: the (lengths x quadrature nodes) arrays to ~1.4 MB each).
+LENGTHS_PER_CALL = 1024
+
+
+def _kappa_over_lengths(model: LatticeModel, T0: float) -> np.ndarray:
+    """kappa [W/m/K] at one temperature for each length of the model's RowBoundary.
+
+    The engine's Callaway integrals are evaluated once at ``T0``: quadrature nodes, Planck
+    weights and every other rate come in one row, the RowBoundary rate v_g / L_i in one row
+    per length, and the integrals broadcast over the lengths (the same arithmetic as
+    ``model.kappa`` on a model with a single boundary length; tests/test_alloys.py compares).
+    """
+    T1 = np.array([float(T0)])
+    total = 0.0
+    for br in model.branches:
+        I1, I2, I3, _ = model._branch_integrals(br, T1)
+        total = total + I1 + np.divide(I2 * I2, I3, out=np.zeros_like(I1), where=I3 > 0)
+    return total
+
+
+def iter_grain_alloy_map(model: LatticeModel | None, lengths, fractions, temperature: float, *, host_a, host_b,
+                         strain_epsilon: float | None = None, extra_gamma: float = 0.0, isotopes: bool = True,
+                         mechanism: str = "boundary", normal_ratio: float = ABELES_BETA, rows: int = 16):
+    """The grain x alloy map in chunks of fractions, for maps too large to hold at once.
+
+    Same arguments as :func:`grain_alloy_map`; ``rows`` fractions per chunk.
+    Yields ``(start, kappa_rows, gamma_rows)``: ``kappa_rows[i, j]`` is kappa
+    [W/m/K] at fraction ``start + i`` and length j. Memory is one chunk of
+    ``rows x len(lengths)`` numbers plus the integrals of up to :data:`LENGTHS_PER_CALL`
+    lengths at a time.
+    """
+    a, b = _host(host_a), _host(host_b)
+    L, xs, T0 = _map_inputs(lengths, fractions, temperature)
+    rows = int(rows)
+    if rows < 1:
+        raise ParameterError(f"rows must be a whole number >= 1, got {rows!r}")
     factor, applies = 1.0, None
     if model is not None:
         bnd = model.mechanism(mechanism)
@@ -419,152 +558,66 @@ def grain_alloy_map(model: LatticeModel | None, lengths, fractions, temperature:
             raise ParameterError(f"mechanism {mechanism!r} of the template is not a Boundary")
         factor = bnd.effective_length / bnd.length
         applies = bnd.applies_to
-    rows = RowBoundary(lengths=tuple((L * factor).tolist()), name=mechanism, applies_to=applies)
-    for i, x in enumerate(xs):
-        mat, g = virtual_crystal(a, b, float(x), strain_epsilon=strain_epsilon, isotopes=isotopes)
-        m = alloy_model(model, mat, g, extra_gamma=extra_gamma)
-        m = m.with_mechanism(rows) if model is not None else m.without("boundary").with_mechanism(rows)
-        out[i] = m.kappa(Trow)
-        gam[i] = g + extra_gamma
-    return GrainAlloyMap(L, xs, T0, out, gam)
+    setup = _series_setup(a, b, model, strain_epsilon, normal_ratio, None, None, T0)
+    blocks = [slice(i, min(i + LENGTHS_PER_CALL, L.size)) for i in range(0, L.size, LENGTHS_PER_CALL)]
+    row_mechs = [RowBoundary(lengths=tuple((L[sl] * factor).tolist()), name=mechanism, applies_to=applies)
+                 for sl in blocks]
+    for start in range(0, xs.size, rows):
+        chunk = xs[start:start + rows]
+        out = np.empty((chunk.size, L.size))
+        gam = np.empty(chunk.size)
+        for i, x in enumerate(chunk):
+            m, g = _series_model(a, b, x, model, setup, isotopes, extra_gamma, None, None, None)
+            if model is None and mechanism not in m.mechanism_names:
+                raise ParameterError(f"the default models have no boundary mechanism named {mechanism!r}")
+            base = m.without(mechanism)
+            for sl, rm in zip(blocks, row_mechs):
+                out[i, sl] = _kappa_over_lengths(base.with_mechanism(rm), T0)
+            gam[i] = g + extra_gamma
+        yield start, out, gam
 
 
-# ---------------------------------------------------------------------------------
-# zT against doping (single parabolic band)
-# ---------------------------------------------------------------------------------
-
-@dataclass(frozen=True)
-class DopingSweep:
-    """zT against the reduced Fermi level, single parabolic band.
-
-    Attributes
-    ----------
-    temperature : float
-        [K]
-    eta : ndarray
-        Reduced Fermi level (E_F - E_band)/(kB T).
-    seebeck : ndarray
-        |S| [V/K].
-    sigma : ndarray
-        [S/m]
-    lorenz : ndarray
-        [W Ohm/K^2]
-    kappa_electronic : ndarray
-        L sigma T [W/m/K].
-    kappa_lattice : float
-        [W/m/K], held fixed.
-    power_factor : ndarray
-        S^2 sigma [W/(m K^2)].
-    zt : ndarray
-    carrier_density : ndarray or None
-        [m^-3], when an effective mass was given.
-    best_eta, best_zt : float
-        Grid point of the largest zT.
-    measured_eta : float or None
-        eta of the measured (sigma, S) pair, if one was given.
-    """
-
-    temperature: float
-    eta: np.ndarray
-    seebeck: np.ndarray
-    sigma: np.ndarray
-    lorenz: np.ndarray
-    kappa_electronic: np.ndarray
-    kappa_lattice: float
-    power_factor: np.ndarray
-    zt: np.ndarray
-    carrier_density: np.ndarray | None
-    best_eta: float
-    best_zt: float
-    measured_eta: float | None
-
-
-def zt_vs_fermi_level(temperature: float, kappa_lattice: float, *, eta=None, weighted_mobility: float | None = None,
-                      sigma: float | None = None, seebeck: float | None = None, scattering="acoustic",
-                      effective_mass: float | None = None) -> DopingSweep:
-    """zT against the reduced Fermi level eta in the single-parabolic-band (SPB) model.
-
-    Assumptions (keep them in mind when reading the optimum):
-
-    * one parabolic band, rigid with doping; relaxation time ~ E^(lambda - 1/2)
-      with one scattering exponent (``scattering``, default acoustic phonons);
-    * the prefactor of sigma (the weighted mobility) does not change with
-      doping, and the lattice conductivity ``kappa_lattice`` does not either;
-    * no bipolar conduction (minority carriers ignored).
-
-    sigma(eta) then follows F_lambda(eta): from a measured pair it is
-    sigma_meas F_lambda(eta) / F_lambda(eta_meas) with eta_meas from the
-    measured |S|; from a weighted mobility mu_w (acoustic scattering only)
-    sigma = sigma_E0 ln(1 + e^eta), sigma_E0 = 8 pi e (2 m_e kB T)^(3/2) mu_w / (3 h^3).
-    S and L are the SPB values at eta (:mod:`kinetic.electronic`).
+def grain_alloy_map(model: LatticeModel | None, lengths, fractions, temperature: float, *, host_a, host_b,
+                    strain_epsilon: float | None = None, extra_gamma: float = 0.0, isotopes: bool = True,
+                    mechanism: str = "boundary", normal_ratio: float = ABELES_BETA) -> GrainAlloyMap:
+    """kappa at one temperature on a grid of boundary lengths x alloy fractions (any size).
 
     Parameters
     ----------
+    model : LatticeModel or None
+        Template (see :func:`alloy_model`); must have a boundary mechanism
+        named ``mechanism`` if given (its specularity is kept). None: the
+        virtual crystal between the hosts' default (calibrated) models, as in
+        :func:`alloy_sweep`.
+    lengths : array_like
+        Boundary lengths [m], > 0 (any number).
+    fractions : array_like
+        x in [0, 1] (any number).
     temperature : float
         [K]
-    kappa_lattice : float
-        [W/m/K], > 0.
-    eta : array_like, optional
-        Grid of reduced Fermi levels (default -4 to 8, 241 points).
-    weighted_mobility : float, optional
-        mu_w [m^2/(V s)] (acoustic scattering only).
-    sigma, seebeck : float, optional
-        A measured pair at this temperature: [S/m] and [V/K] (either sign).
-    scattering : str or float
-        As in :func:`kinetic.electronic.seebeck_spb`.
-    effective_mass : float, optional
-        Density-of-states mass [m_e]; adds the carrier density
-        n = (2 m* kB T / hbar^2)^(3/2) F_1/2(eta) / (2 pi^2).
+    host_a, host_b : Material or preset name
+    strain_epsilon, extra_gamma, isotopes, normal_ratio
+        See :func:`alloy_sweep`.
 
     Returns
     -------
-    DopingSweep
-
-    Raises
-    ------
-    ParameterError
-        Neither or both of weighted_mobility and (sigma, seebeck); weighted
-        mobility with non-acoustic scattering; invalid numbers.
-
-    References
-    ----------
-    SPB transport: May & Snyder, in Materials, Preparation, and
-    Characterization in Thermoelectrics (CRC, 2012); weighted mobility:
-    Snyder et al., Adv. Mater. 32, 2001537 (2020), Eq. 1 (both from memory).
+    GrainAlloyMap
+        ``kappa[i, j]`` for fraction i and length j; equal (to rounding) to
+        building each model separately. For maps that should not be held in
+        memory at once use :func:`iter_grain_alloy_map`.
     """
-    from .electronic import (fermi_integral, lorenz_spb_eta, reduced_fermi_level, scattering_exponent,
-                             seebeck_spb)
-
-    T = float(positive("temperature", temperature, unit="K"))
-    kl = float(positive("kappa_lattice", kappa_lattice, unit="W/m/K"))
-    lam = scattering_exponent(scattering)
-    grid = np.linspace(-4.0, 8.0, 241) if eta is None else _values("eta", eta)
-    have_pair = sigma is not None or seebeck is not None
-    if (weighted_mobility is None) == (not have_pair):
-        raise ParameterError("give either weighted_mobility [m^2/(V s)] or a measured (sigma, seebeck) pair")
-    measured_eta = None
-    if weighted_mobility is not None:
-        if lam != 0.0:
-            raise ParameterError("weighted_mobility uses the acoustic-scattering form; give a measured "
-                                 "(sigma, seebeck) pair for other scattering")
-        mu_w = float(positive("weighted_mobility", weighted_mobility, unit="m^2/(V s)"))
-        s_e0 = 8.0 * np.pi * _e * (2.0 * _me * _kB * T) ** 1.5 * mu_w / (3.0 * _h**3)
-        sig = s_e0 * np.logaddexp(0.0, grid)
-    else:
-        if sigma is None or seebeck is None:
-            raise ParameterError("a measured pair needs both sigma [S/m] and seebeck [V/K]")
-        s_m = float(positive("sigma", sigma, unit="S/m"))
-        measured_eta = float(reduced_fermi_level(seebeck, lam))
-        f_m = float(fermi_integral(lam, measured_eta))
-        sig = s_m * np.asarray(fermi_integral(lam, grid)) / f_m
-    S = np.asarray(seebeck_spb(grid, lam))
-    L = np.asarray(lorenz_spb_eta(grid, lam))
-    ke = L * sig * T
-    pf = S * S * sig
-    zt = pf * T / (kl + ke)
-    n = None
-    if effective_mass is not None:
-        ms = float(positive("effective_mass", effective_mass, unit="m_e"))
-        n = (2.0 * ms * _me * _kB * T / _hbar**2) ** 1.5 * np.asarray(fermi_integral(0.5, grid)) / (2.0 * np.pi**2)
-    i = int(np.argmax(zt))
-    return DopingSweep(T, grid, S, sig, L, ke, kl, pf, zt, n, float(grid[i]), float(zt[i]), measured_eta)
+    L, xs, T0 = _map_inputs(lengths, fractions, temperature)
+    out = np.empty((xs.size, L.size))
+    gam = np.empty(xs.size)
+    for start, k, g in iter_grain_alloy_map(model, L, xs, T0, host_a=host_a, host_b=host_b,
+                                            strain_epsilon=strain_epsilon, extra_gamma=extra_gamma,
+                                            isotopes=isotopes, mechanism=mechanism, normal_ratio=normal_ratio,
+                                            rows=64):
+        out[start:start + k.shape[0]] = k
+        gam[start:start + k.shape[0]] = g
+    a, b = _host(host_a), _host(host_b)
+    notes = scope_notes(materials=(a, b) if model is None else (), temperature=[T0], lengths=L,
+                        series=(a.name, b.name), fractions=xs)
+    if model is not None:
+        notes.insert(0, "started from the given template model, not the hosts' calibrated default models")
+    return GrainAlloyMap(L, xs, T0, out, gam, notes)

@@ -164,14 +164,16 @@ def test_isotope_gamma_of_silicon_gives_klemens_coefficient_near_holland():
     assert A == pytest.approx(1.32e-45, rel=0.2)
 
 
-@pytest.mark.parametrize("split", [False, True])
-def test_silicon_default_model_reproduces_its_calibration_table(split):
-    # The Si preset's Umklapp calibration (gamma, b) was fitted to Glassbrenner & Slack (1964) with a
-    # free boundary length (0.3-0.6 mm). With a 1 mm boundary the default model must reproduce the
-    # 100-1000 K rows within 10 %: the table's stated +-5 % plus the fit's worst residual (~5 %).
-    from kinetic.fitting import default_model
-    m = default_model("Si", ["boundary", "point_defect", "umklapp"], split_branches=split)
-    m = m.with_params({"boundary.length": 1e-3})
+def test_silicon_default_model_reproduces_its_calibration_table():
+    # The Si preset's default model (split sine branches, boundary + isotopes + Umklapp + normal)
+    # was calibrated on Glassbrenner & Slack (1964), Phys. Rev. 134, A1058, 50-1000 K; the preset
+    # stores the rms deviation of that fit. The model must reproduce the table within the stored
+    # rms (1 % slack for rounding of the stored figure), and 300 K within 10 % of the table (issue
+    # requirement for every preset).
+    from kinetic.defaults import calibration, default_model
+    m, cal = default_model("Si"), calibration("Si")
     T, k = _reference_rows("Si", "Glassbrenner")
-    sel = (T >= 100) & (T <= 1000)
-    np.testing.assert_allclose(m.kappa(T[sel]), k[sel], rtol=0.10)
+    sel = (T >= cal.t_min) & (T <= cal.t_max)
+    rel = m.kappa(T[sel]) / k[sel] - 1.0
+    assert np.sqrt(np.mean(rel**2)) <= cal.rms * 1.01
+    assert abs(float(m.kappa(300.0)) / float(np.interp(300.0, T, k)) - 1.0) < 0.10

@@ -39,7 +39,9 @@ def test_dulong_petit_is_three_R_over_molar_mass():
 
 @pytest.mark.parametrize("name", ["Si", "Ge", "GaAs", "Mg2Si"])
 def test_debye_value_against_adaptive_quadrature(name):
-    theta = materials.get(name).debye_temperature
+    # the Debye temperature of the engine's averaged branch (hbar v_D q_D / kB: exactly 3 modes
+    # per atom), which differs from the preset's tabulated value by up to 0.5 % (Ge)
+    theta = materials.get(name).branches()[0].debye_temperature
     T = np.array([0.05, 0.2, 0.5, 1.0, 2.0]) * theta
     got = hc.debye(name, T) / hc.dulong_petit(name)
     want = np.array([_debye_function(theta / t) for t in T])
@@ -49,7 +51,7 @@ def test_debye_value_against_adaptive_quadrature(name):
 
 
 def test_debye_limits():
-    theta = materials.get("Ge").debye_temperature
+    theta = materials.get("Ge").branches()[0].debye_temperature
     # high temperature: C/3NkB = 1 - x^2/20 + O(x^4) (expansion of the Debye function)
     T = 20.0 * theta
     x = theta / T

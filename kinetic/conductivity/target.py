@@ -94,7 +94,7 @@ def lattice_target(dataset, *, lorenz="auto", electronic=True, bipolar: BipolarT
         return LatticeTarget(T, k, err, err, None, None, None, all_rows, ())
     kb = None if bipolar is None else bipolar.kappa(T)
     if not subtract_e:
-        why = ("electronic part not subtracted: electronic=False" if not use else
+        why = ("electronic part not subtracted: electronic=False, or electronic='none' in a fit" if not use else
                "no resistivity given, so the electronic part was not subtracted")
         notes = [f"{name}: total conductivity fitted as lattice ({why})"]
         if kb is None:

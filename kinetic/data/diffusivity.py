@@ -329,7 +329,7 @@ def kappa_by_heat_capacity(dataset, material: str | None = None) -> dict[str, np
     >>> from kinetic.data import parse_data
     >>> ds = parse_data("# density: 2 g/cm^3\\n# cp: 0.5 J/(g K)\\nT [K], D [mm^2/s]\\n300, 4\\n")
     >>> {k: round(float(v[0]), 3) for k, v in kappa_by_heat_capacity(ds, "Mg2Si").items()}
-    {'header': 4.0, 'dulong-petit': 7.805, 'debye': 7.101}
+    {'header': 4.0, 'dulong-petit': 7.805, 'debye': 6.495}
     """
     if getattr(dataset, "heat_capacity", None) is None:
         raise ParameterError("dataset: no heat capacity recorded; expected a Dataset read from a "

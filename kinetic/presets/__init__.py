@@ -57,12 +57,14 @@ invented; a number without a source is a gap (None).
 
 from ._fields import Field, Preset  # noqa: F401
 from .compounds import COMPOUNDS
+from .compounds_extra import EXTRA_COMPOUNDS
 from .group_iv import GROUP_IV
 
-PRESETS: dict[str, Preset] = {**GROUP_IV, **COMPOUNDS}
+PRESETS: dict[str, Preset] = {**GROUP_IV, **COMPOUNDS, **EXTRA_COMPOUNDS}
 
 #: Other names accepted for a preset key (lower case) -> key in PRESETS.
 ALIASES: dict[str, str] = {"diamond": "C", "c": "C", "si": "Si", "ge": "Ge",
                            "gaas": "GaAs", "pbte": "PbTe", "bi2te3": "Bi2Te3",
-                           "mg2si": "Mg2Si"}
+                           "mg2si": "Mg2Si", "aln": "AlN", "sic": "SiC", "6h-sic": "SiC",
+                           "insb": "InSb", "mg2sn": "Mg2Sn", "cosb3": "CoSb3"}
 

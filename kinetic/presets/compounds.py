@@ -3,6 +3,33 @@ from typing import Dict
 
 from ._fields import _GS1964, _IUPAC, _KITTEL, _MS2006, Preset, _f, _gap  # noqa: F401
 
+
+
+def _calibrated(entry: dict) -> Dict[str, dict]:
+    """The ``model`` and ``calibration`` fields of a calibrated preset.
+
+    Built in the shape of the calibrated-model schema of
+    :mod:`kinetic.presets._fields` (``model_field`` / ``calibration_field``)
+    from one entry of a ``_CAL`` table written by reference/calibrate_compounds.py:
+    ``model`` is the reference sample's model (branches, dispersion,
+    mechanisms with their parameters), ``calibration`` the k(T) table it was
+    fitted to (range [K], rms relative deviation as a fraction, 300 K values).
+    """
+    how = ("computed: kinetic.fit of " + ", ".join(entry["free"]) + " to the rows of "
+           "reference/compound_kappa.csv (reference/calibrate_compounds.py); "
+           "boundary length and point-defect Gamma fixed")
+    model = {"branches": entry["branches"], "dispersion": entry["dispersion"],
+             "mechanisms": entry["mechanisms"]}
+    cal = {k: entry[k] for k in ("table", "t_min", "t_max", "rms", "n_points", "sample",
+                                 "max_deviation", "reference_300K", "model_300K",
+                                 "uncertainty_percent", "table_how")}
+    return {"model": {"value": model, "unit": "SI", "source": entry["source"], "how": how,
+                      "note": "model-specific calibration of kinetic's Debye/Callaway model; the "
+                              "fitted gamma is not a material constant (not gamma_th, not Slack's)"},
+            "calibration": {"value": cal, "unit": "K; rms as a fraction",
+                            "source": entry["source"], "how": how}}
+
+
 COMPOUNDS: Dict[str, Preset] = {
     "GaAs": {
         "formula": _f("GaAs", "", "chemical formula", "checked: semi1source glossary"),
@@ -19,11 +46,12 @@ COMPOUNDS: Dict[str, Preset] = {
                       "computed from atomic_mass and lattice_volume_per_atom",
                       "McSkimin et al. quote 5316.9 kg/m^3 (abstract, checked: "
                       "scilit.net/publications/77b88c7bd5870dee967b3528e085d99b)"),
-        "debye_temperature": _f(345.0, "K", "J. S. Blakemore, J. Appl. Phys. 53, R123 "
-                                "(1982), as on Ioffe 'GaAs thermal properties'",
-                                "checked: ioffe.ru/SVA/NSM/Semicond/GaAs/thermal.html",
-                                "theta_0 from the low-temperature T^3 heat capacity; "
-                                "elastic theta_0 = 343.6 K computed from the C_ij below"),
+        "debye_temperature": _f(343.6, "K", "elastic theta_0 = hbar v_D (6 pi^2 n)^(1/3) / kB",
+                                "computed from velocity_debye and lattice_volume_per_atom",
+                                "ELASTIC theta_0 (3 modes per atom in the Debye branch); the "
+                                "calorimetric theta_0 from the T^3 heat capacity is 345 K (J. S. "
+                                "Blakemore, J. Appl. Phys. 53, R123 (1982), as on Ioffe 'GaAs thermal "
+                                "properties', checked: ioffe.ru/SVA/NSM/Semicond/GaAs/thermal.html)"),
         "elastic_constants": _f({"C11": 118.77e9, "C12": 53.72e9, "C44": 59.44e9}, "Pa",
                                 "McSkimin, Jayaraman & Andreatch, elastic moduli of GaAs "
                                 "(25 C, adiabatic; abstract gives 1.1877, 0.5372, 0.5944 "
@@ -48,10 +76,12 @@ COMPOUNDS: Dict[str, Preset] = {
                               "fitted gamma for Slack's formula"),
         "debye_temperature_acoustic": _f(220.0, "K", _MS2006, "from memory",
                                          "Slack's theta_a (acoustic branches only)"),
-        "kappa_300K": _f(55.0, "W/(m K)", "Ioffe 'GaAs thermal properties'",
-                         "checked: ioffe.ru/SVA/NSM/Semicond/GaAs/thermal.html",
-                         "other sources: 45.5 (PMC6927520 Table 2), 46 (semi1source); "
-                         "treat as +-10 %"),
+        "kappa_300K": _f(45.5, "W/(m K)", "Sealy (1993) / Tiwari (1992) law kappa = 45.5 "
+                         "(T/300 K)^-1.3 W/m/K, as tabulated by PMC6927520 Table 2 (the "
+                         "calibration table of this preset)",
+                         "checked: pmc.ncbi.nlm.nih.gov/articles/PMC6927520/table/table2",
+                         "other sources: 55 (Ioffe 'GaAs thermal properties', checked), 46 "
+                         "(semi1source, checked); the published values scatter by ~20 %"),
         "composition": _f({"Ga": 1, "As": 1}, "atoms per formula unit",
                           "chemical formula", "checked: semi1source glossary"),
     },
@@ -72,27 +102,31 @@ COMPOUNDS: Dict[str, Preset] = {
         "density": _f(8248.9, "kg/m^3", "M_bar * u / V_atom (X-ray density)",
                       "computed from atomic_mass and lattice_volume_per_atom",
                       "handbook value 8164 kg/m^3 (Wikipedia/CRC, checked) is 1 % lower"),
-        "debye_temperature": _f(105.0, "K", "Sharov, 'Linear coefficient of thermal "
-                                "expansion and Debye temperature of PbTe at high "
-                                "temperatures', Phys. Solid State (abstract), 105 +- 3 K",
-                                "checked: j.ioffe.ru/articles/54581",
-                                "X-RAY (atomic displacement) Debye temperature, 293-573 K; "
-                                "a calorimetric theta is higher (~130-136 K, from memory)"),
-        "velocity_longitudinal": _gap("m/s", "PbTe elastic constants (Houston, Strakna & "
-                                      "Belson, J. Appl. Phys. 39, 3913 (1968)) not found; "
-                                      "remembered C_ij give a theta_0 that does not match "
-                                      "the checked thetas, so none is given"),
-        "velocity_transverse": _gap("m/s", "see velocity_longitudinal"),
-        "velocity_debye": _f(1139.0, "m/s", "v_D = (k_B theta/hbar)(6 pi^2 n_at)^(-1/3)",
-                             "computed from debye_temperature (105 K, X-ray) and "
-                             "lattice_volume_per_atom",
-                             "inherits the X-ray kind of theta: likely an underestimate"),
+        "debye_temperature": _f(164.9, "K", "elastic theta_0 = hbar v_D (6 pi^2 n)^(1/3) / kB",
+                                "computed from velocity_debye and lattice_volume_per_atom",
+                                "ELASTIC theta_0 (a Debye branch then holds 3 modes per atom). "
+                                "X-ray (atomic displacement) theta 105 +- 3 K, 293-573 K (Sharov, "
+                                "Phys. Solid State, abstract, checked: j.ioffe.ru/articles/54581); "
+                                "calorimetric ~130-136 K (from memory)"),
+        "elastic_constants": _f({"C11": 108.0e9, "C12": 7.7e9, "C44": 13.4e9}, "Pa",
+                                "Houston, Strakna & Belson, J. Appl. Phys. 39, 3913 (1968), "
+                                "ultrasonic, room temperature", "from memory"),
+        "velocity_longitudinal": _f(3157.0, "m/s", "direction average of the Christoffel L velocity",
+                                    "computed from elastic_constants and density"),
+        "velocity_transverse": _f(1738.0, "m/s",
+                                  "direction average of the two Christoffel T velocities",
+                                  "computed from elastic_constants and density"),
+        "velocity_debye": _f(1789.0, "m/s", "3/v_D^3 = <sum_i v_i^-3> over directions",
+                             "computed from elastic_constants and density",
+                             "the X-ray theta (105 K) would imply 1139 m/s; not used"),
         "gruneisen": _gap("1", "no bulk modulus / heat capacity found to form gamma_th; "
                           "alpha = 19.7e-6 1/K (Sharov, checked) is known"),
         "gruneisen_slack": _f(1.45, "1", _MS2006, "from memory", "low confidence"),
-        "kappa_300K": _f(2.30, "W/(m K)", "AZoM/ESPI 'Lead Telluride (PbTe) Semiconductors'",
-                         "checked: azom.com ArticleID=8431",
-                         "weak source; does not say total or lattice, nor the doping"),
+        "kappa_300K": _f(2.0, "W/(m K)", "lattice conductivity of PbTe, Y. Pei et al., Nature "
+                         "473, 66 (2011); Greig, Phys. Rev. 120, 358 (1960) (the calibration "
+                         "table of this preset)", "from memory",
+                         "LATTICE part; AZoM/ESPI 'Lead Telluride (PbTe) Semiconductors' gives 2.30 "
+                         "(checked: azom.com ArticleID=8431; weak source, total or lattice not said)"),
         "composition": _f({"Pb": 1, "Te": 1}, "atoms per formula unit",
                           "chemical formula", "checked: Wikipedia 'Lead telluride' copy"),
     },
@@ -170,20 +204,123 @@ COMPOUNDS: Dict[str, Preset] = {
                       "computed from atomic_mass and lattice_volume_per_atom",
                       "the page's 1880 kg/m^3 is 6 % lower (probably not a single-"
                       "crystal value)"),
-        "debye_temperature": _f(417.0, "K", "PVEducation / Madelung (2004)",
-                                "checked: pveducation.org/zh-hans/pvcdrom/mg2si",
-                                "kind not stated on the page (given at 300 K)"),
-        "velocity_longitudinal": _gap("m/s", "Mg2Si elastic constants (Whitten, Chung & "
-                                      "Danielson, J. Phys. Chem. Solids 26, 49 (1965)) "
-                                      "not found; remembered C_ij give theta_0 ~ 590 K "
-                                      "against the checked 417 K, so none is given"),
-        "velocity_transverse": _gap("m/s", "see velocity_longitudinal"),
-        "velocity_debye": _f(3877.0, "m/s", "v_D = (k_B theta/hbar)(6 pi^2 n_at)^(-1/3)",
-                             "computed from debye_temperature (417 K) and "
-                             "lattice_volume_per_atom"),
+        "debye_temperature": _f(586.6, "K", "elastic theta_0 = hbar v_D (6 pi^2 n)^(1/3) / kB",
+                                "computed from velocity_debye and lattice_volume_per_atom",
+                                "ELASTIC theta_0 (3 modes per atom in the Debye branch). "
+                                "PVEducation/Madelung (2004) give 417 K at 300 K (checked: "
+                                "pveducation.org); X-ray (ADP) 425(2) K (Joergensen et al., Acta "
+                                "Cryst. B 73, 1158 (2017), checked: dissem.in abstract)"),
+        "elastic_constants": _f({"C11": 126.0e9, "C12": 26.0e9, "C44": 48.5e9}, "Pa",
+                                "Whitten, Chung & Danielson, J. Phys. Chem. Solids 26, 49 (1965), "
+                                "ultrasonic, room temperature", "from memory",
+                                "consistent within ~10 % with the Mg2Si stiffnesses used as inputs "
+                                "on microstructures.net simulation pages (C11 115-125, C12 21-26 GPa)"),
+        "velocity_longitudinal": _f(7898.0, "m/s", "direction average of the Christoffel L velocity",
+                                    "computed from elastic_constants and density"),
+        "velocity_transverse": _f(4954.0, "m/s",
+                                  "direction average of the two Christoffel T velocities",
+                                  "computed from elastic_constants and density"),
+        "velocity_debye": _f(5455.0, "m/s", "3/v_D^3 = <sum_i v_i^-3> over directions",
+                             "computed from elastic_constants and density"),
         "gruneisen": _gap("1", "not found"),
-        "kappa_300K": _gap("W/(m K)", "not found in a source; ~8 remembered, unverified"),
+        "kappa_300K": _f(7.9, "W/(m K)", "LaBotz, Mason & O'Kane, J. Electrochem. Soc. 110, 127 "
+                         "(1963); Martin, J. Phys. Chem. Solids 33, 1139 (1972)", "from memory",
+                         "lattice part of single crystals"),
         "composition": _f({"Mg": 2, "Si": 1}, "atoms per formula unit",
                           "chemical formula", "checked: pveducation.org Mg2Si page"),
     },
 }
+
+
+
+# Calibrated reference-sample models, written by reference/calibrate_compounds.py
+# (refit there, never edit by hand). rms is relative (a fraction).
+_CAL = {
+    'GaAs': {'branches': 'avg',
+     'dispersion': 'debye',
+     'mechanisms': {'boundary': {'length': 0.002},
+                    'point_defect': {'gamma': 9.161e-05},
+                    'umklapp': {'gruneisen': 2.1203, 'b': 2.357}},
+     'free': ['umklapp.gruneisen', 'umklapp.b'],
+     'source': 'Sealy (1993) / Tiwari (1992) as tabulated by PMC6927520 Table 2: kappa(T) = 45.5 '
+               '(T/300 K)^-1.3 W/m/K',
+     'table_how': 'checked: pmc.ncbi.nlm.nih.gov/articles/PMC6927520/table/table2 (the law; values '
+                  'computed from it)',
+     'table': 'reference/compound_kappa.csv',
+     't_min': 300.0,
+     't_max': 600.0,
+     'rms': 0.0063,
+     'n_points': 6,
+     'sample': 'lattice (undoped/semi-insulating); Ioffe GaAs thermal page gives 55 at 300 K (checked) '
+               'and Carlson, Slack & Silverman, J. Appl. Phys. 36, 505 (1965) curves; the two sources '
+               'differ by ~20 %, hence 10 %',
+     'max_deviation': 0.0096,
+     'reference_300K': 45.5,
+     'model_300K': 45.8509,
+     'uncertainty_percent': 10.0},
+    'PbTe': {'branches': 'avg',
+     'dispersion': 'debye',
+     'mechanisms': {'boundary': {'length': 0.002},
+                    'point_defect': {'gamma': 9.737e-05},
+                    'umklapp': {'gruneisen': 4.4895, 'b': 10.0}},
+     'free': ['umklapp.gruneisen', 'umklapp.b'],
+     'source': 'lattice conductivity of undoped/lightly doped PbTe as read from Y. Pei et al., Nature '
+               '473, 66 (2011) and E. D. Devyatkova / Greig, Phys. Rev. 120, 358 (1960)',
+     'table_how': 'from memory (kappa_L ~ 2.0 W/m/K at 300 K falling about as 1/T; points read from '
+                  'memory, not from a table)',
+     'table': 'reference/compound_kappa.csv',
+     't_min': 300.0,
+     't_max': 700.0,
+     'rms': 0.0091,
+     'n_points': 5,
+     'sample': 'lattice part; AZoM/ESPI quotes 2.30 at room temperature (checked, total, weak source)',
+     'max_deviation': 0.0145,
+     'reference_300K': 2.0,
+     'model_300K': 2.0289,
+     'uncertainty_percent': 15.0},
+    'Bi2Te3': {'branches': 'avg',
+     'dispersion': 'debye',
+     'mechanisms': {'boundary': {'length': 0.002},
+                    'point_defect': {'gamma': 0.00010814},
+                    'umklapp': {'gruneisen': 4.7589, 'b': 10.0}},
+     'free': ['umklapp.gruneisen', 'umklapp.b'],
+     'source': 'H. J. Goldsmid, Proc. Phys. Soc. B 69, 203 (1956): in-plane lattice conductivity of '
+               'Bi2Te3 varying as 1/T from ~150 K to 300 K; 300 K value 1.54 as summarised by Witting '
+               'et al., Research 2020, 4361703, Table 2',
+     'table_how': '300 K value checked (spj.sciencemag.org/journals/research/2020/4361703/tab2); the '
+                  '1/T law is from memory, the other points computed from it',
+     'table': 'reference/compound_kappa.csv',
+     't_min': 150.0,
+     't_max': 300.0,
+     'rms': 0.0107,
+     'n_points': 4,
+     'sample': 'lattice part, in-plane; other authors 1.30-1.77 at 300 K (same table), i.e. ~15 % '
+               'scatter',
+     'max_deviation': 0.0158,
+     'reference_300K': 1.54,
+     'model_300K': 1.5211,
+     'uncertainty_percent': 15.0},
+    'Mg2Si': {'branches': 'avg',
+     'dispersion': 'debye',
+     'mechanisms': {'boundary': {'length': 0.002},
+                    'point_defect': {'gamma': 0.00052662},
+                    'umklapp': {'gruneisen': 5.6239, 'b': 10.0}},
+     'free': ['umklapp.gruneisen', 'umklapp.b'],
+     'source': "R. J. LaBotz, D. R. Mason & D. F. O'Kane, J. Electrochem. Soc. 110, 127 (1963); J. J. "
+               'Martin, J. Phys. Chem. Solids 33, 1139 (1972): lattice conductivity of Mg2Si single '
+               'crystals',
+     'table_how': 'from memory (7.9 W/m/K at 300 K, about 1/T above; other points computed from the '
+                  '1/T law)',
+     'table': 'reference/compound_kappa.csv',
+     't_min': 300.0,
+     't_max': 600.0,
+     'rms': 0.0078,
+     'n_points': 4,
+     'sample': 'lattice part',
+     'max_deviation': 0.0133,
+     'reference_300K': 7.9,
+     'model_300K': 7.9434,
+     'uncertainty_percent': 15.0},
+}
+for _k, _e in _CAL.items():
+    COMPOUNDS[_k].update(_calibrated(_e))
