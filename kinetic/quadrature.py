@@ -58,9 +58,34 @@ def _rule(panels=PANELS):
 
 
 _RULES = {}
-for _name, _panels in (("debye", PANELS), ("sine", EDGE_PANELS)):
-    _o, _w = _rule(_panels)
-    _RULES[_name] = (_o, _w, np.exp(_o))
+
+
+def _set_rules(panels=None, edge_panels=None):
+    """(Re)build the node tables; used at import and by accuracy studies of the panel choice."""
+    global PANELS, EDGE_PANELS, PLANCK_AT_CUT
+    if panels is not None:
+        PANELS = tuple(panels)
+    if edge_panels is not None:
+        EDGE_PANELS = tuple(edge_panels)
+    for name, pan in (("debye", PANELS), ("sine", EDGE_PANELS)):
+        o, w = _rule(pan)
+        _RULES[name] = (o, w, np.exp(o))
+    if "planck_weight" in globals():
+        PLANCK_AT_CUT = planck_weight(X_CUT * _RULES["debye"][2])
+
+
+def n_nodes(rule: str = "debye") -> int:
+    """Number of quadrature nodes of a rule (per temperature and branch)."""
+    return _RULES[rule][0].size
+
+
+def log_ratio(rule: str = "debye") -> float:
+    """ln(u_1 / u_0) between the two lowest nodes of a rule (the same for every temperature)."""
+    o = _RULES[rule][0]
+    return float(o[1] - o[0])
+
+
+_set_rules()
 
 
 def log_nodes(u_hi: np.ndarray, rule: str = "debye"):
@@ -98,12 +123,21 @@ def lower_tail(u: np.ndarray, integrand: np.ndarray) -> np.ndarray:
     f0 = integrand[..., 0]
     f1 = integrand[..., 1]
     u0 = u[..., 0]
-    log_ratio = float(np.log(u.flat[1] / u.flat[0]))  # the same for every row of a rule
+    return tail_from_columns(u0, f0, f1, float(np.log(u.flat[1] / u.flat[0])))
+
+
+def tail_from_columns(u0, f0, f1, log_ratio: float):
+    """:func:`lower_tail` from the integrand at the two lowest nodes.
+
+    ``u0`` is the lowest node, ``f0`` and ``f1`` the integrand F(u) at the two
+    lowest nodes (any broadcastable shapes), ``log_ratio`` = ln(u_1 / u_0).
+    """
+    f0 = np.asarray(f0, dtype=float)
+    f1 = np.asarray(f1, dtype=float)
     ok = (f0 > 0) & (f1 > 0)
-    p = np.log(np.divide(f1, f0, out=np.ones_like(f0), where=ok)) / log_ratio
+    p = np.log(np.divide(f1, f0, out=np.ones(np.broadcast_shapes(f0.shape, f1.shape)), where=ok)) / log_ratio
     ok &= p > -0.9
-    tail = np.divide(u0 * f0, p + 1.0, out=np.zeros_like(f0), where=ok)
-    return tail
+    return np.divide(u0 * f0, p + 1.0, out=np.zeros_like(p), where=ok)
 
 
 #: Below this x the Planck weight comes from its Taylor series (no exponential).
