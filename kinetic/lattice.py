@@ -25,8 +25,10 @@ beta = I2 / I3, which the spectral and mean-free-path outputs use.
 """
 from __future__ import annotations
 
+import threading
+from collections import OrderedDict
 from dataclasses import dataclass
-from typing import Iterable, Mapping
+from typing import Iterable, Mapping, Sequence
 
 import numpy as np
 from scipy.constants import hbar, k as kB
@@ -34,22 +36,268 @@ from scipy.constants import hbar, k as kB
 from . import quadrature as quad
 from ._validate import temperatures as _check_T, positive
 from .dispersion import Branch
-from .errors import ParameterError
+from .errors import ModelError, ParameterError
+from .quantities import to_si
 from .scattering import Mechanism, mechanism_from_dict
 
-__all__ = ["LatticeModel", "Spectrum"]
+__all__ = ["LatticeModel", "Spectrum", "TemperatureGrid", "prepared_grid", "clear_cache"]
 
-#: Temperatures per block of the (T x node) arrays. Blocks of 80 x 151 (171 on sine
-#: branches) numbers
-#: (< 128 KiB) stay in the CPU cache and are served from the heap rather than by
-#: fresh memory maps, whose page faults cost more than the arithmetic on this
-#: size of array (measured: 2.5x slower for one 200 x 151 block on 2 cores).
-BLOCK_T = 80
+#: Temperature arrays up to this size get a prepared grid that is kept for
+#: later calls (nodes, Planck weights and each mechanism's rates); larger
+#: arrays are done in blocks of this many temperatures with nothing kept, so
+#: memory stays bounded (a block of 4096 x 96 nodes is 3 MiB per array).
+BLOCK_T = 4096
+#: Prepared grids kept (least recently used dropped first).
+CACHE_GRIDS = 16
+#: Rates kept per branch of a grid (one per mechanism instance met).
+CACHE_RATES = 64
+#: A branch whose conductivity-weighted mean free path exceeds this [m] has no
+#: mechanism limiting long-wavelength phonons: larger than any specimen (the
+#: boundary length is bounded by 0.1 m), so the number would be meaningless.
+MAX_MEAN_FREE_PATH = 1.0
+
+_GRIDS: "OrderedDict[bytes, TemperatureGrid]" = OrderedDict()
 
 
-def _blocks(n: int):
-    """Slices covering range(n) in blocks of BLOCK_T temperatures (vectorised within a block)."""
-    return [slice(i, min(i + BLOCK_T, n)) for i in range(0, n, BLOCK_T)]
+def clear_cache() -> None:
+    """Forget every prepared temperature grid (and the rates kept on it)."""
+    _GRIDS.clear()
+
+
+def _temperature(value, name: str = "temperature") -> np.ndarray:
+    """Temperatures [K] from numbers or a pint quantity, checked finite and > 0."""
+    return _check_T(to_si(value, "K", name), name)
+
+
+def _planck_on_nodes(x):
+    """x^2 e^x / (e^x - 1)^2 = ((x/2) / sinh(x/2))^2 in place in ``x`` (0 < x <= X_CUT on the nodes).
+
+    The sinh form has no cancellation at small x and no overflow for the
+    node range, and needs one transcendental pass; :func:`quadrature.planck_weight`
+    is the general version (checked against mpmath in tests).
+    """
+    x *= 0.5
+    s = np.sinh(x)
+    x /= s
+    x *= x
+    return x
+
+
+class _BranchNodes:
+    """Quadrature nodes, Planck-weighted integrand and kept rates of one branch on one temperature grid.
+
+    Holds omega at the nodes (what mechanisms see), ``wbase`` = weight x
+    integrand / tau (so an integral is a sum of ``wbase / rate``) and the two
+    lowest columns of the integrand for the closed-form tail. Scratch arrays
+    for the sums are kept per thread, so repeated calls allocate nothing big.
+    """
+
+    __slots__ = ("branch", "T", "u_hi", "omega", "wbase", "base01", "u0", "log_ratio", "rates", "shape",
+                 "_local", "_vg")
+
+    def __init__(self, branch: Branch, T: np.ndarray):
+        x_max = branch.debye_temperature / T
+        r = np.minimum(1.0, quad.X_CUT / x_max)
+        sine = branch.dispersion == "sine"
+        u_hi = (2.0 / np.pi) * np.arcsin(r) if sine else r
+        _, weights, exp_off = quad._RULES[branch.dispersion]
+        u = u_hi[:, None] * exp_off[None, :]
+        pref = branch.polarizations * branch.q_max**3 * kB / (6.0 * np.pi**2)
+        # wbase = weight * pref * v_g^2 * Planck * u^2, with weight = rule weight * u (du = u ds)
+        wbase = u * u
+        wbase *= u
+        if sine:
+            omega = branch.omega_of_u(u)
+            vg = branch.group_velocity_of_u(u)
+            wbase *= vg
+            wbase *= vg
+            wbase *= (pref * weights)[None, :]
+            x = omega * (hbar / kB)
+            x /= T[:, None]
+        else:
+            wbase *= (pref * branch.velocity**2 * weights)[None, :]
+            x = u * x_max[:, None]
+            omega = u
+            omega *= branch.omega_max
+        wbase *= _planck_on_nodes(x)
+        self.branch = branch
+        self.T = T
+        self.u_hi = u_hi
+        self.omega = omega
+        self.wbase = wbase
+        w01 = weights[None, :2] * (u_hi[:, None] * exp_off[None, :2])
+        self.base01 = wbase[:, :2] / w01
+        self.u0 = u_hi * exp_off[0]
+        self.log_ratio = quad.log_ratio(branch.dispersion)
+        self.shape = wbase.shape
+        self.rates: dict = {}
+        self._local = threading.local()
+        self._vg = None
+
+    def tail(self, f01):
+        """Closed-form integral below the lowest node from the integrand at the two lowest nodes."""
+        return quad.tail_from_columns(self.u0, f01[:, 0], f01[:, 1], self.log_ratio)
+
+    def tails(self, f01):
+        """:meth:`tail` of several integrands at once, ``f01`` of shape (k, n_T, 2) -> (k, n_T)."""
+        f0 = f01[..., 0]
+        f1 = f01[..., 1]
+        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+            p = np.log(f1 / f0) / self.log_ratio
+            t = self.u0 * f0 / (p + 1.0)
+        ok = (f0 > 0) & (f1 > 0) & (p > -0.9)
+        return np.where(ok, t, 0.0)
+
+    def scratch(self):
+        """Per-thread work arrays of the node shape: res, n, c, f1, g."""
+        buf = getattr(self._local, "buf", None)
+        if buf is None:
+            buf = self._local.buf = np.empty((5,) + self.shape)
+        return buf
+
+    @property
+    def vg(self):
+        """Group velocity at the nodes [m/s] (a float on a Debye branch)."""
+        if self._vg is None:
+            b = self.branch
+            if b.dispersion == "sine":
+                self._vg = b.group_velocity_of_u(self.u_hi[:, None] * quad._RULES["sine"][2][None, :])
+            else:
+                self._vg = b.velocity
+        return self._vg
+
+    def full(self):
+        """u, weights, Planck weight at the nodes (rebuilt: for heat capacity and spectra)."""
+        b = self.branch
+        _, weights, exp_off = quad._RULES[b.dispersion]
+        u = self.u_hi[:, None] * exp_off[None, :]
+        x = (hbar / kB) * self.omega / self.T[:, None]
+        return u, weights[None, :] * u, _planck_on_nodes(x)
+
+
+class TemperatureGrid:
+    """A temperature array prepared for the engine: nodes and Planck weights per branch.
+
+    :meth:`LatticeModel.kappa` and friends prepare (and keep, see
+    :func:`prepared_grid`) one of these for each temperature array they meet,
+    so a second call on the same temperatures -- a slider move, a fit step --
+    reuses the nodes, the Planck weights and the rate of every mechanism that
+    did not change.
+
+    Parameters
+    ----------
+    temperature : array_like
+        Temperatures [K], finite and > 0 (any shape; kept flattened).
+    """
+
+    def __init__(self, temperature):
+        T = np.ascontiguousarray(_temperature(temperature), dtype=float)
+        self.shape = T.shape
+        self.temperature = T.ravel()
+        self.temperature.setflags(write=False)
+        self.Tcol = self.temperature[:, None]
+        self._nodes: dict = {}
+
+    @property
+    def size(self) -> int:
+        return self.temperature.size
+
+    def nodes(self, branch: Branch) -> _BranchNodes:
+        """Nodes of one branch (built on first use and kept)."""
+        try:
+            return self._nodes[branch]
+        except KeyError:
+            pass
+        if len(self._nodes) >= 16:
+            self._nodes.pop(next(iter(self._nodes)))
+        n = self._nodes[branch] = _BranchNodes(branch, self.temperature)
+        return n
+
+
+def _key(T: np.ndarray) -> bytes:
+    return T.tobytes() + repr(T.shape).encode()
+
+
+def _cached_grid(temperature):
+    """The kept grid of a float array met before (no validation needed: same bytes), else None."""
+    if type(temperature) is np.ndarray and temperature.dtype == np.float64 and temperature.size <= BLOCK_T:
+        g = _GRIDS.get(_key(temperature))
+        if g is not None:
+            _GRIDS.move_to_end(_key(temperature))
+        return g
+    return None
+
+
+def prepared_grid(temperature) -> TemperatureGrid:
+    """The kept :class:`TemperatureGrid` of a temperature array, prepared on first use.
+
+    Arrays of more than :data:`BLOCK_T` temperatures are not kept.
+    """
+    if isinstance(temperature, TemperatureGrid):
+        return temperature
+    g = _cached_grid(temperature)
+    if g is not None:
+        return g
+    T = np.ascontiguousarray(_temperature(temperature), dtype=float)
+    if T.size > BLOCK_T:
+        return TemperatureGrid(T)
+    key = _key(T)
+    g = _GRIDS.get(key)
+    if g is None:
+        g = TemperatureGrid(T)
+        _GRIDS[key] = g
+        if len(_GRIDS) > CACHE_GRIDS:
+            _GRIDS.popitem(last=False)
+    else:
+        _GRIDS.move_to_end(key)
+    return g
+
+
+def _describe_bad(mech, branch, r, omega, Tcol) -> str:
+    full = np.broadcast_shapes(np.shape(r), omega.shape, Tcol.shape)
+    rb = np.broadcast_to(r, full)
+    bad = ~np.isfinite(rb) | (rb < 0)
+    i, j = np.argwhere(bad)[0]
+    val = rb[i, j]
+    what = "a NaN" if np.isnan(val) else ("an infinite" if np.isinf(val) else "a negative")
+    w = np.broadcast_to(omega, full)[i, j]
+    t = np.broadcast_to(Tcol, full)[i, j]
+    return (f"mechanism {mech.name!r} ({type(mech).__name__}) returned {what} scattering rate ({val!r} s^-1) "
+            f"at omega = {w:.4g} rad/s, T = {t:.4g} K on branch {branch.name!r}; "
+            "a rate 1/tau must be finite and >= 0 [s^-1]")
+
+
+def _checked_rate(mech, branch, omega, Tcol):
+    """A mechanism's rate on the nodes, refused (naming it) when NaN, infinite, negative or mis-shaped."""
+    r = np.asarray(mech.rate(omega, Tcol, branch), dtype=float)
+    if r.shape != omega.shape:
+        try:
+            full = np.broadcast_shapes(r.shape, omega.shape, Tcol.shape)
+        except ValueError:
+            full = None
+        if full != omega.shape:
+            raise ModelError(
+                f"mechanism {mech.name!r} ({type(mech).__name__}) returned rates of shape {r.shape} for "
+                f"omega of shape {omega.shape} and T of shape {Tcol.shape}; they must broadcast together"
+            )
+    if r.size:
+        lo, hi = r.min(), r.max()
+        if not (lo >= 0.0 and hi < np.inf):
+            raise ModelError(_describe_bad(mech, branch, r, omega, Tcol))
+    return r
+
+
+def _sum_into(out: np.ndarray, rates: list) -> np.ndarray:
+    """Sum of rate arrays (each broadcasting to ``out``'s shape), written into ``out``."""
+    if not rates:
+        out.fill(0.0)
+    elif len(rates) == 1:
+        np.copyto(out, rates[0])
+    else:
+        np.add(rates[0], rates[1], out=out)
+        for r in rates[2:]:
+            np.add(out, r, out=out)
+    return out
 
 
 @dataclass(frozen=True)
@@ -272,9 +520,9 @@ class LatticeModel:
 
         Parameters
         ----------
-        omega : array_like
+        omega : array_like or pint Quantity
             Angular frequency [rad s^-1].
-        temperature : float or array_like
+        temperature : float or array_like or pint Quantity
             [K], broadcast against omega.
 
         Returns
@@ -283,8 +531,8 @@ class LatticeModel:
             ``{branch name: {mechanism name: rate [s^-1]}}`` (mechanisms that
             do not apply to a branch are left out of its entry).
         """
-        T = _check_T(temperature)
-        omega = np.asarray(omega, dtype=float)
+        T = _temperature(temperature)
+        omega = np.asarray(to_si(omega, "rad/s", "omega"), dtype=float)
         shape = np.broadcast_shapes(omega.shape, np.shape(T))
         return {
             b.name: {m.name: np.broadcast_to(m.rate(omega, T, b), shape).copy()
@@ -293,71 +541,124 @@ class LatticeModel:
         }
 
     # --- integrals ----------------------------------------------------------------
-    def _branch_nodes(self, branch: Branch, T: np.ndarray):
-        """Quadrature nodes for one branch at temperatures T (1-D).
+    def _node_rates(self, nodes: _BranchNodes, Tcol, mech):
+        """A mechanism's rate on a branch's nodes, kept on the grid for the next call."""
+        try:
+            return nodes.rates[mech]
+        except KeyError:
+            pass
+        except TypeError:  # a mechanism with unhashable fields: not kept
+            return _checked_rate(mech, nodes.branch, nodes.omega, Tcol)
+        r = _checked_rate(mech, nodes.branch, nodes.omega, Tcol)
+        if len(nodes.rates) >= CACHE_RATES:
+            nodes.rates.pop(next(iter(nodes.rates)))
+        nodes.rates[mech] = r
+        return r
 
-        Returns u, weights, omega [rad/s] and the Planck weight at each node.
+    def _branch_sums(self, grid: TemperatureGrid, branch: Branch):
+        """Callaway integrals of one branch on a prepared grid.
+
+        Returns ``(I1, I2, I3, ctx)``, ``ctx`` holding the node arrays reused by
+        the Jacobian, the spectral output and the mean-free-path check.
         """
-        x_max = branch.debye_temperature / T
-        capped = x_max >= quad.X_CUT
-        r = np.minimum(1.0, quad.X_CUT / x_max)
-        if branch.dispersion == "sine":
-            u_hi = (2.0 / np.pi) * np.arcsin(r)
+        nodes = grid.nodes(branch)
+        Tcol = grid.Tcol
+        corr = self.has_normal_correction(branch)
+        res, nrm = [], []
+        for m in self.scattering:
+            if m.applies(branch):
+                r = self._node_rates(nodes, Tcol, m)
+                (res if (m.resistive or not self.normal_correction) else nrm).append(r)
+        buf = nodes.scratch()
+        r_res = _sum_into(buf[0], res)
+        r_n = _sum_into(buf[1], nrm) if corr else None
+        r_c, f1 = buf[2], buf[3]
+        if corr:
+            np.add(r_res, r_n, out=r_c)
         else:
-            u_hi = r
-        u, w = quad.log_nodes(u_hi, branch.dispersion)
-        omega = branch.omega_of_u(u)
-        if branch.dispersion == "debye":
-            # x = hbar omega / kB T = x_max u; below theta / X_CUT every temperature
-            # sees the same x nodes, so one precomputed Planck row serves them all.
-            if np.all(capped):
-                pw = np.broadcast_to(quad.PLANCK_AT_CUT, u.shape)
-            elif np.any(capped):
-                pw = np.empty_like(u)
-                pw[capped] = quad.PLANCK_AT_CUT
-                pw[~capped] = quad.planck_weight(x_max[~capped, None] * u[~capped])
-            else:
-                pw = quad.planck_weight(x_max[:, None] * u)
+            r_c = r_res
+        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+            np.divide(nodes.wbase, r_c, out=f1)
+            F1 = nodes.base01 / r_c[:, :2]
+        if corr:
+            I1 = f1.sum(axis=1)
+            I2 = np.einsum("ij,ij->i", f1, r_n)
+            g = np.multiply(f1, r_res, out=buf[4])
+            I3 = np.einsum("ij,ij->i", g, r_n)
+            rn01 = r_n[:, :2]
+            F2 = F1 * rn01
+            tails = nodes.tails(np.stack([F1, F2, F2 * r_res[:, :2]]))
+            I1 += tails[0]
+            I2 += tails[1]
+            I3 += tails[2]
         else:
-            pw = quad.planck_weight((hbar / kB) * omega / T[:, None])
-        return u, w, omega, pw
-
-    def _branch_integrals(self, branch: Branch, T: np.ndarray):
-        """Callaway integrals (I1, I2, I3) and helpers for one branch."""
-        u, w, omega, pw = self._branch_nodes(branch, T)
-        vg = branch.group_velocity_of_u(u)
-        pref = branch.polarizations * branch.q_max**3 * kB / (6.0 * np.pi**2)
-        base = (pref * vg * vg) * pw * (u * u)  # integrand / tau, in du
-        r_res, r_n = self._split_rates(omega, T[:, None], branch)
-        has_n = self.has_normal_correction(branch)
-        r_c = r_res + r_n if has_n else r_res
-        f1 = base / r_c
-        I1 = np.einsum("ij,ij->i", w, f1) + quad.lower_tail(u, f1)
-        if has_n:
-            f2 = f1 * r_n
-            I2 = np.einsum("ij,ij->i", w, f2) + quad.lower_tail(u, f2)
-            f3 = f2 * r_res
-            I3 = np.einsum("ij,ij->i", w, f3) + quad.lower_tail(u, f3)
-        else:
+            I1 = f1.sum(axis=1) + nodes.tail(F1)
             I2 = I3 = np.zeros_like(I1)
-        return I1, I2, I3, (u, w, omega, vg, base, 1.0 / r_c, r_n)
+        return I1, I2, I3, (nodes, f1, F1, r_c, r_res, r_n, corr)
 
-    def kappa_parts(self, temperature) -> dict:
-        """Lattice conductivity of each branch [W m^-1 K^-1], shaped like temperature."""
-        T = _check_T(temperature)
-        shape = np.shape(T)
-        Tf = np.atleast_1d(T).ravel()
+    @staticmethod
+    def _combine(I1, I2, I3):
+        """Callaway's kappa = I1 + I2^2 / I3 (I3 = 0 without Normal processes)."""
+        return I1 + np.divide(I2 * I2, I3, out=np.zeros_like(I1), where=I3 > 0)
+
+    def _check_mean_free_path(self, grid, branch, I1, ctx):
+        """Refuse a branch whose heat is carried by phonons with unbounded mean free paths."""
+        if any(getattr(m, "limits_mean_free_path", False) and m.applies(branch) for m in self.scattering):
+            return
+        nodes, f1, F1, r_c, *_ = ctx
+        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+            lam = np.einsum("ij,ij->i", f1, np.broadcast_to(nodes.vg, f1.shape) / r_c) / I1
+        bad = ~(lam <= MAX_MEAN_FREE_PATH) | ~np.isfinite(I1)
+        if np.any(bad):
+            i = int(np.flatnonzero(bad)[0])
+            raise ModelError(
+                f"branch {branch.name!r} at T = {grid.temperature[i]:.4g} K: the heat would be carried by phonons "
+                f"with mean free paths of ~{lam[i]:.2g} m (conductivity-weighted mean), longer than any specimen, "
+                "because no mechanism limits long-wavelength phonons; add a boundary term, e.g. "
+                "Boundary(length=1e-3) for a 1 mm sample"
+            )
+
+    def _parts_on_grid(self, grid: TemperatureGrid) -> dict:
         out = {}
         for b in self.branches:
-            k = np.empty_like(Tf)
-            for sl in _blocks(Tf.size):
-                I1, I2, I3, _ = self._branch_integrals(b, Tf[sl])
-                k[sl] = I1 + np.divide(I2 * I2, I3, out=np.zeros_like(I1), where=I3 > 0)
-            out[b.name] = k.reshape(shape)
+            I1, I2, I3, ctx = self._branch_sums(grid, b)
+            self._check_mean_free_path(grid, b, I1, ctx)
+            out[b.name] = self._combine(I1, I2, I3)
         return out
+
+    def kappa_parts(self, temperature) -> dict:
+        """Lattice conductivity of each branch [W m^-1 K^-1], shaped like temperature.
+
+        ``temperature`` [K] may be a number, an array, a pint quantity (any
+        temperature unit) or a :class:`TemperatureGrid`.
+
+        Raises
+        ------
+        ParameterError
+            For temperatures that are not finite and > 0, or not temperatures.
+        ModelError
+            When a mechanism returns a NaN, infinite or negative rate (the
+            message names it) or nothing limits the mean free path of
+            long-wavelength phonons (no boundary term).
+        """
+        grid = temperature if isinstance(temperature, TemperatureGrid) else _cached_grid(temperature)
+        if grid is not None:
+            return {k: v.reshape(grid.shape) for k, v in self._parts_on_grid(grid).items()}
+        T = _temperature(temperature)
+        shape = np.shape(T)
+        Tf = np.ascontiguousarray(np.atleast_1d(T), dtype=float).ravel()
+        if Tf.size <= BLOCK_T:
+            parts = self._parts_on_grid(prepared_grid(Tf))
+        else:
+            blocks = [self._parts_on_grid(TemperatureGrid(Tf[i:i + BLOCK_T])) for i in range(0, Tf.size, BLOCK_T)]
+            parts = {b.name: np.concatenate([blk[b.name] for blk in blocks]) for b in self.branches}
+        return {k: v.reshape(shape) for k, v in parts.items()}
 
     def kappa(self, temperature):
         """Lattice thermal conductivity [W m^-1 K^-1] at each temperature [K].
+
+        ``temperature`` may be a number, an array or a pint quantity; see
+        :meth:`kappa_parts` for the errors.
 
         Examples
         --------
@@ -367,21 +668,159 @@ class LatticeModel:
         1.6308
         """
         parts = self.kappa_parts(temperature)
-        return sum(parts.values())
+        total = None
+        for v in parts.values():
+            total = v.copy() if total is None else total + v
+        return total
+
+    def kappa_jacobian(self, temperature, names: Sequence[str]):
+        """Conductivity and its derivatives with respect to model parameters.
+
+        Parameters
+        ----------
+        temperature : array_like or pint Quantity
+            [K]
+        names : sequence of str
+            ``"<mechanism>.<param>"`` keys of :attr:`params`.
+
+        Returns
+        -------
+        kappa : ndarray
+            [W m^-1 K^-1], shaped like ``temperature``.
+        J : ndarray
+            ``J[..., j] = d kappa / d params[names[j]]`` in the parameter's own
+            (natural, not log) unit, shape ``temperature.shape + (len(names),)``.
+
+        Notes
+        -----
+        A parameter whose mechanism's rate goes as a power of it
+        (``Parameter.rate_power``, e.g. a coefficient entering linearly, or a
+        boundary length as 1/L) gets the exact derivative of the integrals:
+        with d(1/tau_m)/dc = k (1/tau_m) / c, dI1 = -<rho / tau_c^-2>,
+        dI2 and dI3 likewise, and
+        d kappa = dI1 + (2 I2 dI2 I3 - I2^2 dI3) / I3^2 (Callaway's term
+        differentiated). Other parameters (exponents, specularity, Umklapp b)
+        get a central difference (one-sided at a bound) on the same nodes.
+        """
+        names = list(names)
+        info = self.parameter_info()
+        for n in names:
+            if n not in info:
+                raise ParameterError(f"unknown parameter {n!r}; valid names: {', '.join(info)}")
+        T = _temperature(temperature)
+        shape = np.shape(T)
+        Tf = np.ascontiguousarray(np.atleast_1d(T), dtype=float).ravel()
+        if Tf.size > BLOCK_T:
+            pieces = [self.kappa_jacobian(Tf[i:i + BLOCK_T], names) for i in range(0, Tf.size, BLOCK_T)]
+            k = np.concatenate([p[0] for p in pieces])
+            J = np.concatenate([p[1] for p in pieces])
+            return k.reshape(shape), J.reshape(shape + (len(names),))
+        grid = prepared_grid(Tf)
+        J = np.zeros((Tf.size, len(names)))
+        analytic = [j for j, n in enumerate(names) if info[n].rate_power is not None]
+        kappa = np.zeros(Tf.size)
+        for b in self.branches:
+            I1, I2, I3, ctx = self._branch_sums(grid, b)
+            self._check_mean_free_path(grid, b, I1, ctx)
+            kappa += self._combine(I1, I2, I3)
+            if analytic:
+                self._branch_jacobian(grid, b, I1, I2, I3, ctx, names, analytic, info, J)
+        for j, n in enumerate(names):
+            if info[n].rate_power is None:
+                J[:, j] = self._difference(grid, n, info[n])
+        return kappa.reshape(shape), J.reshape(shape + (len(names),))
+
+    def _branch_jacobian(self, grid, branch, I1, I2, I3, ctx, names, analytic, info, J):
+        nodes, f1, F1, r_c, r_res, r_n, corr = ctx
+        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+            h = f1 / r_c  # w * base / r_c^2
+            H = F1 / r_c[:, :2]
+        lazy = {}
+
+        def weighted(kind):
+            # h, h * s, h * s^2 with s = r_n (resistive parameter) or r_res (Normal parameter)
+            if kind not in lazy:
+                s = r_n if kind == "res" else r_res
+                hs = h * s
+                Hs = H * s[:, :2]
+                lazy[kind] = (hs, hs * s, Hs, Hs * s[:, :2])
+            return lazy[kind]
+
+        I3s = np.where(I3 > 0, I3, 1.0)
+        for j in analytic:
+            mname, pname = names[j].split(".", 1)
+            mech = self.mechanism(mname)
+            if not mech.applies(branch):
+                continue
+            value = float(getattr(mech, pname))
+            rho = np.broadcast_to(self._node_rates(nodes, grid.Tcol, mech), nodes.shape)
+            c = info[names[j]].rate_power / value  # d rate / d value = c * rate
+            rho01 = rho[:, :2]
+            a = np.einsum("ij,ij->i", h, rho) + nodes.tail(H * rho01)
+            if not corr:
+                J[:, j] += -c * a
+                continue
+            kind = "res" if (mech.resistive or not self.normal_correction) else "n"
+            hs, hss, Hs, Hss = weighted(kind)
+            b_ = np.einsum("ij,ij->i", hs, rho) + nodes.tail(Hs * rho01)
+            c_ = np.einsum("ij,ij->i", hss, rho) + nodes.tail(Hss * rho01)
+            dI1 = -a
+            if kind == "res":
+                dI2, dI3 = -b_, c_
+            else:
+                dI2, dI3 = b_, c_
+            dk = dI1 + np.where(I3 > 0, (2.0 * I2 * dI2 * I3 - I2 * I2 * dI3) / (I3s * I3s), 0.0)
+            J[:, j] += c * dk
+
+    def _difference(self, grid, name, par):
+        """d kappa / d param by a central difference on the same nodes (one-sided at a bound)."""
+        v = float(par.value)
+        lo, hi = par.bounds
+        span = (hi - lo) if np.isfinite(hi - lo) else 1.0
+        h = 1e-5 * max(abs(v), 1e-3 * span)
+
+        def k_at(x):
+            try:
+                m = self.with_params({name: x})
+            except ParameterError:
+                return None
+            return sum(m._parts_on_grid(grid).values())
+
+        kp, km = k_at(v + h), k_at(v - h)
+        if kp is not None and km is not None:
+            return (kp - km) / (2.0 * h)
+        k0 = sum(self._parts_on_grid(grid).values())
+        if kp is not None:
+            return (kp - k0) / h
+        if km is not None:
+            return (k0 - km) / h
+        raise ParameterError(f"{name}: cannot step the value {v!r} by {h:g} inside its valid range")
 
     def heat_capacity(self, temperature):
-        """Debye heat capacity per volume of the branches [J m^-3 K^-1]."""
-        T = _check_T(temperature)
+        """Debye heat capacity per volume of the branches [J m^-3 K^-1] at temperatures [K]."""
+        T = _temperature(temperature)
         shape = np.shape(T)
-        Tf = np.atleast_1d(T).ravel()
+        Tf = np.ascontiguousarray(np.atleast_1d(T), dtype=float).ravel()
         total = np.zeros_like(Tf)
-        for b in self.branches:
-            pref = b.polarizations * b.q_max**3 * kB / (2.0 * np.pi**2)
-            for sl in _blocks(Tf.size):
-                u, w, omega, pw = self._branch_nodes(b, Tf[sl])
+        for i in range(0, Tf.size, BLOCK_T):
+            grid = prepared_grid(Tf[i:i + BLOCK_T])
+            for b in self.branches:
+                nodes = grid.nodes(b)
+                pref = b.polarizations * b.q_max**3 * kB / (2.0 * np.pi**2)
+                u, w, pw = nodes.full()
                 f = pref * pw * u * u
-                total[sl] += np.einsum("ij,ij->i", w, f) + quad.lower_tail(u, f)
+                total[i:i + BLOCK_T] += np.einsum("ij,ij->i", w, f) + nodes.tail(f[:, :2])
         return total.reshape(shape)
+
+    def _branch_integrals(self, branch: Branch, T: np.ndarray):
+        """Callaway integrals (I1, I2, I3) and node arrays of one branch (spectral output)."""
+        grid = prepared_grid(T)
+        I1, I2, I3, (nodes, f1, F1, r_c, r_res, r_n, corr) = self._branch_sums(grid, branch)
+        self._check_mean_free_path(grid, branch, I1, (nodes, f1, F1, r_c, r_res, r_n, corr))
+        r_nn = r_n if corr else np.zeros(nodes.shape)
+        u, w, _ = nodes.full()
+        base = nodes.wbase / w
+        return I1, I2, I3, (u, w, nodes.omega, nodes.branch.group_velocity_of_u(u), base, 1.0 / r_c, r_nn.copy())
 
     def spectral(self, temperature: float, n_omega: int = 400) -> Spectrum:
         """Spectral and mean-free-path accumulation at one temperature [K].
@@ -391,7 +830,10 @@ class LatticeModel:
         mean-free-path accumulation uses the engine's quadrature nodes, so its
         last value equals :meth:`kappa` exactly.
         """
-        T = float(_check_T(temperature))
+        T = _temperature(temperature)
+        if np.size(T) != 1:
+            raise ParameterError(f"temperature must be a single number [K], got {np.size(T)} values")
+        T = float(np.ravel(T)[0])
         Tf = np.array([T])
         n_omega = int(positive("n_omega", n_omega))
         omegas, k_om, cums, mfps, contribs = {}, {}, {}, [], []

@@ -14,6 +14,15 @@ Every mechanism has a ``name`` (its default is the mechanism's kind, e.g.
 parameters, which the model addresses as ``"<name>.<param>"``. ``applies_to``
 restricts a mechanism to branches by name (e.g. ``("L",)``), so branch-specific
 coefficients are simply two mechanisms with different names.
+
+Adding a mechanism is one class and its registration: subclass
+:class:`Mechanism` as a frozen dataclass with a ``kind``, a plain-words
+``label`` and a ``colour`` (hex, used by every plot and table), declare each
+parameter in ``_spec`` (unit, plain-words description, bounds, how the rate
+scales with it) and write ``rate``; then decorate the class with
+:func:`register`. The fitter, the workbench, the command line, records and the
+conformance suite (tests/test_mechanism_conformance.py) pick it up from
+:data:`MECHANISMS`.
 """
 from __future__ import annotations
 
@@ -27,6 +36,7 @@ from scipy.constants import hbar, atomic_mass
 from .dispersion import Branch
 from .errors import ParameterError
 from .parameters import Parameter
+from .quantities import is_quantity, to_si
 
 __all__ = [
     "Mechanism",
@@ -39,6 +49,7 @@ __all__ = [
     "Precipitate",
     "MECHANISMS",
     "mechanism_from_dict",
+    "register",
 ]
 
 
@@ -51,6 +62,8 @@ class _Spec:
     fixed: bool = False
     allow_zero: bool = False
     upper_open: bool = False
+    #: k when the rate goes as value**k (1: linear); None otherwise
+    power: float | None = None
 
 
 @dataclass(frozen=True)
@@ -58,12 +71,20 @@ class Mechanism:
     """Base class: parameter bookkeeping shared by every mechanism.
 
     Subclasses define dataclass fields for their parameters (``None`` for an
-    unused alternative parameterisation), a ``kind`` and ``_spec`` with each
-    parameter's unit, description and bounds, and ``rate``.
+    unused alternative parameterisation), a ``kind``, a plain-words ``label``
+    and a ``colour``, ``_spec`` with each parameter's unit, description and
+    bounds, and ``rate``.
     """
 
     kind: ClassVar[str] = ""
+    #: plain words of the trade for panels, legends and reports
+    label: ClassVar[str] = ""
+    #: hex colour of the mechanism in every plot and table
+    colour: ClassVar[str] = "#7f7f7f"
     resistive: ClassVar[bool] = True
+    #: True when the rate stays finite as omega -> 0 for every branch (a boundary),
+    #: so the mean free path of long-wavelength phonons is bounded
+    limits_mean_free_path: ClassVar[bool] = False
     _spec: ClassVar[dict] = {}
 
     def __post_init__(self):
@@ -82,6 +103,8 @@ class Mechanism:
             value = getattr(self, pname)
             if value is None:
                 continue
+            if is_quantity(value):
+                value = to_si(value, spec.unit, f"{self.name}.{pname}")
             try:
                 v = float(value)
             except (TypeError, ValueError):
@@ -117,6 +140,7 @@ class Mechanism:
                 bounds=spec.bounds,
                 log=spec.log,
                 fixed=spec.fixed,
+                rate_power=spec.power,
             )
         return out
 
@@ -133,7 +157,7 @@ class Mechanism:
                 f"{self.name} has no parameter {unknown[0]!r}; its parameters are: "
                 + ", ".join(self.values)
             )
-        return replace(self, **{k: float(v) for k, v in values.items()})
+        return replace(self, **{k: (v if is_quantity(v) else float(v)) for k, v in values.items()})
 
     def applies(self, branch: Branch) -> bool:
         return self.applies_to is None or branch.name in self.applies_to
@@ -166,6 +190,14 @@ def _omega_T(omega, T):
 def _full(value, omega, T):
     """``value`` as an array; it broadcasts against omega x T (no copy is made)."""
     return np.asarray(value)
+
+
+def _scaled(r, factor):
+    """r * factor, in place when r is a fresh array of the full broadcast shape (saves a large temporary)."""
+    if isinstance(r, np.ndarray) and r.ndim and r.shape == np.broadcast_shapes(r.shape, np.shape(factor)):
+        r *= factor
+        return r
+    return r * factor
 
 
 def _power(x, n: float):
@@ -214,9 +246,13 @@ class Boundary(Mechanism):
     applies_to: tuple | None = None
 
     kind: ClassVar[str] = "boundary"
+    label: ClassVar[str] = "Boundaries (grain size)"
+    colour: ClassVar[str] = "#1f77b4"
+    limits_mean_free_path: ClassVar[bool] = True
     _spec: ClassVar[dict] = {
-        "length": _Spec("m", "boundary length", (1e-9, 1e-1)),
-        "specularity": _Spec("", "specularity", (0.0, 0.99), log=False, allow_zero=True, upper_open=True),
+        "length": _Spec("m", "grain size / boundary length", (1e-9, 1e-1), power=-1.0),
+        "specularity": _Spec("", "specular fraction of boundary reflections p", (0.0, 0.99), log=False,
+                             allow_zero=True, upper_open=True),
     }
 
     @property
@@ -227,7 +263,8 @@ class Boundary(Mechanism):
 
     def rate(self, omega, T, branch):
         omega, T = _omega_T(omega, T)
-        v = branch.group_velocity(omega)
+        # a Debye branch's group velocity is its sound velocity: no array to build
+        v = branch.velocity if branch.dispersion == "debye" else branch.group_velocity(omega)
         return _full(v / self.effective_length, omega, T)
 
 
@@ -263,10 +300,12 @@ class PointDefect(Mechanism):
     applies_to: tuple | None = None
 
     kind: ClassVar[str] = "point_defect"
+    label: ClassVar[str] = "Point defects (mass disorder)"
+    colour: ClassVar[str] = "#2ca02c"
     _spec: ClassVar[dict] = {
-        "A": _Spec("s^3", "point-defect coefficient A", (1e-48, 1e-38)),
-        "gamma": _Spec("", "mass-disorder parameter Gamma", (1e-7, 1.0)),
-        "volume_per_atom": _Spec("m^3", "volume per atom", (1e-30, 1e-27), fixed=True),
+        "A": _Spec("s^3", "point-defect strength A (rate A omega^4)", (1e-48, 1e-38), power=1.0),
+        "gamma": _Spec("", "mass-disorder parameter Gamma", (1e-7, 1.0), power=1.0),
+        "volume_per_atom": _Spec("m^3", "volume per atom", (1e-30, 1e-27), fixed=True, power=1.0),
     }
 
     def __post_init__(self):
@@ -289,7 +328,9 @@ class PointDefect(Mechanism):
 
     def rate(self, omega, T, branch):
         omega, T = _omega_T(omega, T)
-        return _full(self.coefficient(branch) * _power(omega, 4.0), omega, T)
+        r = omega * omega
+        r = _scaled(r, r)
+        return _scaled(r, self.coefficient(branch))
 
 
 @dataclass(frozen=True)
@@ -327,11 +368,13 @@ class Umklapp(Mechanism):
     applies_to: tuple | None = None
 
     kind: ClassVar[str] = "umklapp"
+    label: ClassVar[str] = "Umklapp (anharmonic)"
+    colour: ClassVar[str] = "#d62728"
     _spec: ClassVar[dict] = {
-        "B": _Spec("s K^-1", "Umklapp prefactor B", (1e-22, 1e-15)),
-        "gruneisen": _Spec("", "Grüneisen parameter", (0.1, 10.0)),
-        "atomic_mass": _Spec("kg", "mean atomic mass", (1e-27, 1e-24), fixed=True),
-        "b": _Spec("", "Umklapp exponent divisor b", (1.0, 10.0), log=False),
+        "B": _Spec("s K^-1", "Umklapp strength B", (1e-22, 1e-15), power=1.0),
+        "gruneisen": _Spec("", "Grüneisen parameter (anharmonicity)", (0.1, 10.0), power=2.0),
+        "atomic_mass": _Spec("kg", "mean atomic mass", (1e-27, 1e-24), fixed=True, power=-1.0),
+        "b": _Spec("", "Umklapp temperature exponent b", (1.0, 10.0), log=False),
     }
 
     def __post_init__(self):
@@ -369,7 +412,7 @@ class Umklapp(Mechanism):
     def rate(self, omega, T, branch):
         omega, T = _omega_T(omega, T)
         # exp of a large negative argument underflows quietly to 0 (no warning).
-        return (self.coefficient(branch) * T * np.exp(-branch.debye_temperature / (self.b * T))) * (omega * omega)
+        return _scaled(omega * omega, self.coefficient(branch) * T * np.exp(-branch.debye_temperature / (self.b * T)))
 
 
 @dataclass(frozen=True)
@@ -398,16 +441,22 @@ class Normal(Mechanism):
     applies_to: tuple | None = None
 
     kind: ClassVar[str] = "normal"
+    label: ClassVar[str] = "Normal processes"
+    colour: ClassVar[str] = "#9467bd"
     resistive: ClassVar[bool] = False
     _spec: ClassVar[dict] = {
-        "B": _Spec("s^(n-1) K^-m", "normal-process prefactor B", (1e-30, 1e-8)),
-        "omega_power": _Spec("", "frequency power n", (0.5, 4.0), log=False, fixed=True),
-        "temperature_power": _Spec("", "temperature power m", (0.5, 5.0), log=False, fixed=True),
+        "B": _Spec("s^(n-1) K^-m", "normal-process strength B", (1e-30, 1e-8), power=1.0),
+        "omega_power": _Spec("", "normal-process frequency exponent n", (0.5, 4.0), log=False, fixed=True),
+        "temperature_power": _Spec("", "normal-process temperature exponent m", (0.5, 5.0), log=False,
+                                   fixed=True),
     }
 
     def rate(self, omega, T, branch):
         omega, T = _omega_T(omega, T)
-        return (self.B * _power(T, self.temperature_power)) * _power(omega, self.omega_power)
+        w = _power(omega, self.omega_power)
+        if w is omega:
+            w = w.copy()
+        return _scaled(w, self.B * _power(T, self.temperature_power))
 
 
 @dataclass(frozen=True)
@@ -430,7 +479,9 @@ class ElectronPhonon(Mechanism):
     applies_to: tuple | None = None
 
     kind: ClassVar[str] = "electron_phonon"
-    _spec: ClassVar[dict] = {"C": _Spec("", "electron-phonon coefficient C", (1e-8, 1e-1))}
+    label: ClassVar[str] = "Free carriers"
+    colour: ClassVar[str] = "#8c564b"
+    _spec: ClassVar[dict] = {"C": _Spec("", "carrier-scattering strength C", (1e-8, 1e-1), power=1.0)}
 
     def rate(self, omega, T, branch):
         omega, T = _omega_T(omega, T)
@@ -481,15 +532,17 @@ class Dislocation(Mechanism):
     applies_to: tuple | None = None
 
     kind: ClassVar[str] = "dislocation"
+    label: ClassVar[str] = "Dislocations"
+    colour: ClassVar[str] = "#e377c2"
     _spec: ClassVar[dict] = {
-        "density": _Spec("m^-2", "dislocation density", (1e8, 1e18)),
+        "density": _Spec("m^-2", "dislocation density", (1e8, 1e18), power=1.0),
         "burgers": _Spec("m", "Burgers vector", (1e-10, 2e-9), fixed=True),
         "gruneisen": _Spec("", "Grüneisen parameter", (0.1, 10.0), fixed=True),
         "volume_per_atom": _Spec("m^3", "volume per atom", (1e-30, 1e-27), fixed=True),
         "poisson_ratio": _Spec("", "Poisson ratio", (0.0, 0.5), log=False, fixed=True,
                                allow_zero=True, upper_open=True),
         "velocity_ratio": _Spec("", "vL / vT", (1.0, 3.0), log=False, fixed=True),
-        "orientation": _Spec("", "orientation factor eta", (0.1, 1.0), log=False, fixed=True),
+        "orientation": _Spec("", "orientation factor eta", (0.1, 1.0), log=False, fixed=True, power=1.0),
     }
 
     def rate(self, omega, T, branch):
@@ -533,9 +586,11 @@ class Precipitate(Mechanism):
     applies_to: tuple | None = None
 
     kind: ClassVar[str] = "precipitate"
+    label: ClassVar[str] = "Nanoprecipitates"
+    colour: ClassVar[str] = "#17becf"
     _spec: ClassVar[dict] = {
         "radius": _Spec("m", "precipitate radius", (2e-10, 1e-6)),
-        "number_density": _Spec("m^-3", "precipitate number density", (1e15, 1e27)),
+        "number_density": _Spec("m^-3", "precipitates per volume", (1e15, 1e27), power=1.0),
         "density_contrast": _Spec("", "density contrast dD/D", (1e-3, 10.0), fixed=True),
     }
 
@@ -551,10 +606,48 @@ class Precipitate(Mechanism):
         return _full(v * self.number_density * sigma, omega, T)
 
 
-MECHANISMS = {
-    cls.kind: cls
-    for cls in (Boundary, PointDefect, Umklapp, Normal, ElectronPhonon, Dislocation, Precipitate)
-}
+#: kind -> mechanism class, every registered mechanism (see :func:`register`)
+MECHANISMS: dict = {}
+
+
+def register(cls):
+    """Register a mechanism class under its ``kind`` (usable as a class decorator).
+
+    Checks what every consumer relies on: a frozen Mechanism dataclass with a
+    new identifier ``kind``, a plain-words ``label``, a hex ``colour`` and
+    each declared parameter a field with unit text, description and bounds.
+    Returns the class.
+
+    Raises
+    ------
+    ParameterError
+        When any of these is missing or the kind is taken.
+    """
+    if not (isinstance(cls, type) and issubclass(cls, Mechanism)):
+        raise ParameterError(f"only Mechanism subclasses can be registered, got {cls!r}")
+    kind = cls.kind
+    if not isinstance(kind, str) or not kind.isidentifier():
+        raise ParameterError(f"{cls.__name__}.kind must be a plain identifier, got {kind!r}")
+    if kind in MECHANISMS and MECHANISMS[kind] is not cls:
+        raise ParameterError(f"mechanism kind {kind!r} is already registered by {MECHANISMS[kind].__name__}")
+    if not (isinstance(cls.label, str) and cls.label.strip()):
+        raise ParameterError(f"{cls.__name__} needs a plain-words label")
+    c = cls.colour
+    if not (isinstance(c, str) and len(c) == 7 and c[0] == "#"
+            and all(ch in "0123456789abcdefABCDEF" for ch in c[1:])):
+        raise ParameterError(f"{cls.__name__}.colour must be a hex colour such as '#1f77b4', got {c!r}")
+    names = {f.name for f in fields(cls)}
+    for pname, spec in cls._spec.items():
+        if pname not in names:
+            raise ParameterError(f"{cls.__name__} declares parameter {pname!r} but has no such field")
+        if not spec.description or len(spec.bounds) != 2 or not spec.bounds[0] < spec.bounds[1]:
+            raise ParameterError(f"{cls.__name__}.{pname} needs a description and bounds lo < hi")
+    MECHANISMS[kind] = cls
+    return cls
+
+
+for _cls in (Boundary, PointDefect, Umklapp, Normal, ElectronPhonon, Dislocation, Precipitate):
+    register(_cls)
 
 
 def mechanism_from_dict(d: dict) -> Mechanism:
