@@ -123,6 +123,19 @@ class Mechanism:
                 raise ParameterError(f"{self.name}.{pname} must be {rng}{unit}, got {v!r}")
             object.__setattr__(self, pname, v)
 
+    @classmethod
+    def example(cls) -> "Mechanism":
+        """A valid instance with typical values (the class defaults unless overridden).
+
+        The conformance suite builds every registered mechanism from this.
+        """
+        return cls()
+
+    @classmethod
+    def examples(cls) -> tuple:
+        """One valid instance per parameterisation (default: just :meth:`example`)."""
+        return (cls.example(),)
+
     # --- parameters ---------------------------------------------------------------
     @property
     def parameters(self) -> dict:
@@ -316,6 +329,16 @@ class PointDefect(Mechanism):
             raise ParameterError(f"{self.name}: gamma needs volume_per_atom [m^3]")
 
     @classmethod
+    def example(cls) -> "PointDefect":
+        """Klemens' form with Gamma = 1e-4 and a volume per atom of 2e-29 m^3 (Si-like, invented)."""
+        return cls(gamma=1e-4, volume_per_atom=2e-29)
+
+    @classmethod
+    def examples(cls) -> tuple:
+        """Klemens' form and the bare coefficient A = 1.3e-45 s^3 (invented, Si-like)."""
+        return (cls.example(), cls(A=1.3e-45))
+
+    @classmethod
     def from_gamma(cls, gamma: float, volume_per_atom: float, **kw) -> "PointDefect":
         """Klemens' point-defect scattering from Gamma and the volume per atom [m^3]."""
         return cls(gamma=gamma, volume_per_atom=volume_per_atom, **kw)
@@ -383,6 +406,16 @@ class Umklapp(Mechanism):
             raise ParameterError(f"{self.name}: give exactly one of B [s K^-1] or gruneisen (with atomic_mass)")
         if self.gruneisen is not None and self.atomic_mass is None:
             raise ParameterError(f"{self.name}: gruneisen needs atomic_mass [kg]")
+
+    @classmethod
+    def example(cls) -> "Umklapp":
+        """B = 2e-19 s/K, b = 3 (Si-like order of magnitude, invented)."""
+        return cls(B=2e-19)
+
+    @classmethod
+    def examples(cls) -> tuple:
+        """The bare prefactor and Slack's form (gamma = 1, M = 4.66e-26 kg, Si-like, invented)."""
+        return (cls.example(), cls(gruneisen=1.0, atomic_mass=4.66e-26))
 
     @classmethod
     def from_material(cls, material, *, gruneisen: float | None = None, b: float = 3.0, **kw) -> "Umklapp":
