@@ -20,6 +20,15 @@ baseline.
 Targets: engine >= 300x the user's script, <= 1e-6 relative error against the
 reference; a repeated call on the same temperature grid with one parameter
 changed (a slider move, a fit step) >= 2x faster than a cold call.
+
+Times are CPU time of this process (``time.process_time``), best of repeats,
+for the engine and the user's script alike: on a shared machine wall-clock
+minima favour short calls (a few ms slip between other processes' time
+slices, a half-second loop never does), which would inflate the ratios.
+"Cold" is a temperature array the engine has not met (its grid cache cleared):
+nodes, Planck weights and every rate are built. "One parameter changed" cycles
+through a boundary length, a point-defect coefficient and an Umklapp
+prefactor, so each call meets a new rate array.
 """
 from __future__ import annotations
 
@@ -91,13 +100,14 @@ def user_script(temperatures, length=LENGTH):
     return np.array(out)
 
 
-def _best_of(fn, repeat=7, number=20):
+def _best_of(fn, repeat=15, number=10):
+    """Best CPU time per call [s] over ``repeat`` runs of ``number`` calls."""
     best = float("inf")
     for _ in range(repeat):
-        t0 = time.perf_counter()
+        t0 = time.process_time()
         for _ in range(number):
             fn()
-        best = min(best, (time.perf_counter() - t0) / number)
+        best = min(best, (time.process_time() - t0) / number)
     return best
 
 
@@ -108,7 +118,7 @@ def run():
     T = np.linspace(2.0, 1000.0, 200)
     model = engine_model()
     # user's script: best of 3 single runs (each ~0.5 s)
-    t_user = min(_best_of(lambda: user_script(T), repeat=1, number=1) for _ in range(3))
+    t_user = _best_of(lambda: user_script(T), repeat=3, number=1)
     k_user = user_script(T)
 
     def cold():
@@ -119,27 +129,35 @@ def run():
     lattice.clear_cache()
     k_fast = model.kappa(T)
     # a slider move / fit step: same grid, one parameter changed each call
-    lengths = iter(np.geomspace(1e-6, 1e-2, 10**6))
+    rng = np.random.default_rng(0)
+    moves = iter([{"boundary.length": LENGTH * f} if i % 3 == 0 else
+                  {"point_defect.A": A_PD * f} if i % 3 == 1 else {"umklapp.B": B_U * f}
+                  for i, f in enumerate(10 ** rng.uniform(-1, 1, 100_000))])
 
     def warm():
-        model.with_params({"boundary.length": next(lengths)}).kappa(T)
+        model.with_params(next(moves)).kappa(T)
 
     model.kappa(T)
     t_warm = _best_of(warm)
+    t_same = _best_of(lambda: model.kappa(T))
+    # accuracy on every 4th temperature (50 of 200: the tight check is slow)
+    sub = slice(None, None, 4)
     t_ref = time.perf_counter()
-    k_ref = kappa_adaptive(model, T, epsrel=1e-10)
+    k_ref = kappa_adaptive(model, T[sub], epsrel=1e-10)
     t_ref = time.perf_counter() - t_ref
-    err = float(np.max(np.abs(k_fast / k_ref - 1.0)))
-    err_user = float(np.max(np.abs(k_user / k_ref - 1.0)))
+    err = float(np.max(np.abs(k_fast[sub] / k_ref - 1.0)))
+    err_user = float(np.max(np.abs(k_user[sub] / k_ref - 1.0)))
     return [
         ("engine: user's quad loop (default tol), 200 T, L+T, 4 mech.", f"{t_user * 1e3:.1f} ms",
          f"baseline; its max rel. error {err_user:.1e}"),
         ("engine: kappa, same case, cold (new grid)", f"{t_cold * 1e3:.3f} ms",
          f"{t_user / t_cold:.0f}x the user's loop (target >= 300x)"),
         ("engine: kappa, same grid, one parameter changed", f"{t_warm * 1e3:.3f} ms",
-         f"{t_user / t_warm:.0f}x the loop; {t_cold / t_warm:.1f}x a cold call (target >= 2x)"),
+         f"{t_user / t_warm:.0f}x the loop (target >= 300x); {t_cold / t_warm:.1f}x faster than cold "
+         "(target >= 2x)"),
+        ("engine: kappa, same grid, same model again", f"{t_same * 1e3:.3f} ms", f"{t_user / t_same:.0f}x the loop"),
         ("engine: max rel. error vs kinetic.checks (quad, epsrel 1e-10)", f"{err:.1e}",
-         f"target <= 1e-6 (the check took {t_ref:.1f} s: accuracy reference only)"),
+         f"target <= 1e-6; 50 of the 200 T (the check took {t_ref:.1f} s wall: accuracy reference only)"),
     ]
 
 

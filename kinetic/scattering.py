@@ -249,8 +249,10 @@ class Boundary(Mechanism):
     Examples
     --------
     >>> from kinetic import Branch
-    >>> Boundary(1e-3).rate(1e12, 300.0, Branch(5000.0, 400.0)) == 5000.0 / 1e-3
-    True
+    >>> float(Boundary(1e-3).rate(1e12, 300.0, Branch(5000.0, 400.0)))   # v / L [s^-1]
+    5000000.0
+    >>> Boundary.label, Boundary.colour
+    ('Boundaries (grain size)', '#1f77b4')
     """
 
     length: float = 1e-3
