@@ -22,6 +22,25 @@ where <.> is the kinetic integral above (Callaway 1959, Eqs. 22-24; branch by
 branch as in Morelli, Heremans & Slack, Phys. Rev. B 66, 195304, 2002). The
 same result is kappa_b = <tau_eff> with tau_eff = tau_c (1 + beta / tau_N),
 beta = I2 / I3, which the spectral and mean-free-path outputs use.
+
+Speed. Each temperature array met is prepared once (:class:`TemperatureGrid`,
+kept by :func:`prepared_grid`, least recently used dropped): the quadrature
+nodes of every branch, omega at the nodes and the Planck-weighted integrand.
+The rate of every mechanism instance is kept on the grid too, so a slider move
+or a fit step (one parameter changed) recomputes one rate and the sums, with no
+Python loop over temperatures or frequencies. Mechanisms are frozen
+dataclasses, so an instance's rate depends only on its fields.
+
+Safety. A rate that is NaN, infinite or negative is refused once, when it is
+first computed, with a :class:`~kinetic.errors.ModelError` naming the
+mechanism, the branch, omega and T. A branch that no mechanism bounds at long
+wavelength (no boundary term) is refused where more than 1 % of its heat would
+be carried by phonons with mean free paths beyond 1 m. Temperatures may be
+pint quantities (see :mod:`kinetic.quantities`).
+
+Derivatives. :meth:`LatticeModel.kappa_jacobian` differentiates the integrals
+exactly for every parameter whose rate goes as a power of it
+(``Parameter.rate_power``), Callaway's term included.
 """
 from __future__ import annotations
 
@@ -34,9 +53,9 @@ import numpy as np
 from scipy.constants import hbar, k as kB
 
 from . import quadrature as quad
-from ._validate import temperatures as _check_T, positive
+from ._validate import temperatures as _check_T, nonnegative, positive
 from .dispersion import Branch
-from .errors import ModelError, ParameterError
+from .errors import KineticError, ModelError, ParameterError
 from .quantities import to_si
 from .scattering import Mechanism, mechanism_from_dict
 
@@ -69,6 +88,8 @@ def clear_cache() -> None:
 
 def _temperature(value, name: str = "temperature") -> np.ndarray:
     """Temperatures [K] from numbers or a pint quantity, checked finite and > 0."""
+    if value is None or isinstance(value, (str, bytes)):
+        raise ParameterError(f"{name} must be a number or array of numbers [K], got {value!r}")
     return _check_T(to_si(value, "K", name), name)
 
 
@@ -302,7 +323,17 @@ def _describe_bad(mech, branch, r, omega, Tcol) -> str:
 
 def _checked_rate(mech, branch, omega, Tcol):
     """A mechanism's rate on the nodes, refused (naming it) when NaN, infinite, negative or mis-shaped."""
-    r = np.asarray(mech.rate(omega, Tcol, branch), dtype=float)
+    try:
+        # overflow, 0/0 and the like come back as inf or NaN and are refused below, naming the mechanism
+        with np.errstate(all="ignore"):
+            r = np.asarray(mech.rate(omega, Tcol, branch), dtype=float)
+    except (KineticError, MemoryError, KeyboardInterrupt):
+        raise
+    except Exception as exc:
+        raise ModelError(
+            f"mechanism {mech.name!r} ({type(mech).__name__}) failed on branch {branch.name!r}: "
+            f"{type(exc).__name__}: {exc}"
+        ) from exc
     if r.shape != omega.shape:
         try:
             full = np.broadcast_shapes(r.shape, omega.shape, Tcol.shape)
@@ -565,7 +596,7 @@ class LatticeModel:
             do not apply to a branch are left out of its entry).
         """
         T = _temperature(temperature)
-        omega = np.asarray(to_si(omega, "rad/s", "omega"), dtype=float)
+        omega = np.asarray(nonnegative("omega", to_si(omega, "rad/s", "omega"), unit="rad/s"), dtype=float)
         shape = np.broadcast_shapes(omega.shape, np.shape(T))
         return {
             b.name: {m.name: np.broadcast_to(m.rate(omega, T, b), shape).copy()
@@ -751,7 +782,7 @@ class LatticeModel:
         >>> round(float(J[0, 0] * 1e-3 / k[0]), 9)   # Casimir: kappa proportional to L
         1.0
         """
-        names = list(names)
+        names = [names] if isinstance(names, str) else list(names)
         info = self.parameter_info()
         for n in names:
             if n not in info:
