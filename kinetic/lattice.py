@@ -137,7 +137,8 @@ class _BranchNodes:
     for the sums are kept per thread, so repeated calls allocate nothing big.
     """
 
-    __slots__ = ("branch", "T", "u_hi", "omega", "wbase", "base01", "u0", "log_ratio", "rates", "shape", "_vg")
+    __slots__ = ("branch", "T", "u_hi", "omega", "wbase", "base01", "u0", "log_ratio", "rates", "shape", "_vg",
+                 "ones")
 
     def __init__(self, branch: Branch, T: np.ndarray):
         x_max = branch.debye_temperature / T
@@ -177,6 +178,7 @@ class _BranchNodes:
         self.u0 = u_hi * exp_off[0]
         self.log_ratio = quad.log_ratio(branch.dispersion)
         self.shape = wbase.shape
+        self.ones = np.ones(wbase.shape[1])
         self.rates: dict = {}
         self._vg = None
 
@@ -185,14 +187,19 @@ class _BranchNodes:
         return quad.tail_from_columns(self.u0, f01[:, 0], f01[:, 1], self.log_ratio)
 
     def tails(self, f01):
-        """:meth:`tail` of several integrands at once, ``f01`` of shape (k, n_T, 2) -> (k, n_T)."""
+        """:meth:`tail` of several integrands at once, ``f01`` of shape (k, n_T, 2) -> (k, n_T).
+
+        Call inside ``np.errstate(divide="ignore", invalid="ignore")``: a zero
+        or non-positive integrand gives a NaN power, which fails the test
+        ``p > -0.9`` and gets no tail (as in :func:`quadrature.tail_from_columns`).
+        """
         f0 = f01[..., 0]
-        f1 = f01[..., 1]
-        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
-            p = np.log(f1 / f0) / self.log_ratio
-            t = self.u0 * f0 / (p + 1.0)
-        ok = (f0 > 0) & (f1 > 0) & (p > -0.9)
-        return np.where(ok, t, 0.0)
+        p1 = np.log(f01[..., 1] / f0)
+        p1 *= 1.0 / self.log_ratio
+        p1 += 1.0  # p + 1
+        t = f0 * self.u0
+        t /= p1
+        return np.where((p1 > 0.1) & (f0 > 0), t, 0.0)
 
     def scratch(self):
         """Per-thread work arrays of the node shape: res, n, c, f1, g."""
@@ -352,10 +359,15 @@ def _checked_rate(mech, branch, omega, Tcol):
 
 
 def _sum_into(out: np.ndarray, rates: list) -> np.ndarray:
-    """Sum of rate arrays (each broadcasting to ``out``'s shape), written into ``out``."""
+    """Sum of rate arrays (each broadcasting to ``out``'s shape), written into ``out``.
+
+    A single rate of the full shape is returned as it is (read only from here on).
+    """
     if not rates:
         out.fill(0.0)
     elif len(rates) == 1:
+        if np.shape(rates[0]) == out.shape:
+            return rates[0]
         np.copyto(out, rates[0])
     else:
         np.add(rates[0], rates[1], out=out)
@@ -643,21 +655,24 @@ class LatticeModel:
             r_c = r_res
         with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
             np.divide(nodes.wbase, r_c, out=f1)
-            F1 = nodes.base01 / r_c[:, :2]
-        if corr:
-            I1 = f1.sum(axis=1)
-            I2 = np.einsum("ij,ij->i", f1, r_n)
-            g = np.multiply(f1, r_res, out=buf[4])
-            I3 = np.einsum("ij,ij->i", g, r_n)
-            rn01 = r_n[:, :2]
-            F2 = F1 * rn01
-            tails = nodes.tails(np.stack([F1, F2, F2 * r_res[:, :2]]))
-            I1 += tails[0]
-            I2 += tails[1]
-            I3 += tails[2]
-        else:
-            I1 = f1.sum(axis=1) + nodes.tail(F1)
-            I2 = I3 = np.zeros_like(I1)
+            I1 = f1 @ nodes.ones  # row sums (matrix-vector product: faster than .sum on these shapes)
+            if corr:
+                I2 = np.einsum("ij,ij->i", f1, r_n)
+                g = np.multiply(f1, r_res, out=buf[4])
+                I3 = np.einsum("ij,ij->i", g, r_n)
+                F = np.empty((3,) + I1.shape + (2,))
+                np.divide(nodes.base01, r_c[:, :2], out=F[0])
+                np.multiply(F[0], r_n[:, :2], out=F[1])
+                np.multiply(F[1], r_res[:, :2], out=F[2])
+                tails = nodes.tails(F)
+                I1 += tails[0]
+                I2 += tails[1]
+                I3 += tails[2]
+                F1 = F[0]
+            else:
+                F1 = nodes.base01 / r_c[:, :2]
+                I1 += nodes.tails(F1[None])[0]
+                I2 = I3 = np.zeros_like(I1)
         return I1, I2, I3, (nodes, f1, F1, r_c, r_res, r_n, corr)
 
     @staticmethod
@@ -675,6 +690,12 @@ class LatticeModel:
         :data:`MAX_LONG_PATH_SHARE`.
         """
         if any(getattr(m, "limits_mean_free_path", False) and m.applies(branch) for m in self.scattering):
+            if not np.all(np.isfinite(I1)):
+                i = int(np.flatnonzero(~np.isfinite(I1))[0])
+                raise ModelError(
+                    f"branch {branch.name!r} at T = {grid.temperature[i]:.4g} K: the conductivity integral is not "
+                    "finite (a total scattering rate of zero at some frequency)"
+                )
             return
         nodes, f1, F1, r_c, *_ = ctx
         with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
