@@ -79,11 +79,14 @@ MAX_MEAN_FREE_PATH = 1.0
 MAX_LONG_PATH_SHARE = 0.01
 
 _GRIDS: "OrderedDict[bytes, TemperatureGrid]" = OrderedDict()
+#: guards the grid cache and the per-grid dictionaries (the workbench fits in a thread)
+_LOCK = threading.RLock()
 
 
 def clear_cache() -> None:
     """Forget every prepared temperature grid (and the rates kept on it)."""
-    _GRIDS.clear()
+    with _LOCK:
+        _GRIDS.clear()
 
 
 def _temperature(value, name: str = "temperature") -> np.ndarray:
@@ -269,10 +272,11 @@ class TemperatureGrid:
             return self._nodes[branch]
         except KeyError:
             pass
-        if len(self._nodes) >= 16:
-            self._nodes.pop(next(iter(self._nodes)))
-        n = self._nodes[branch] = _BranchNodes(branch, self.temperature)
-        return n
+        n = _BranchNodes(branch, self.temperature)
+        with _LOCK:
+            if len(self._nodes) >= 16:
+                self._nodes.pop(next(iter(self._nodes)), None)
+            return self._nodes.setdefault(branch, n)
 
 
 def _key(T: np.ndarray) -> bytes:
@@ -282,9 +286,11 @@ def _key(T: np.ndarray) -> bytes:
 def _cached_grid(temperature):
     """The kept grid of a float array met before (no validation needed: same bytes), else None."""
     if type(temperature) is np.ndarray and temperature.dtype == np.float64 and temperature.size <= BLOCK_T:
-        g = _GRIDS.get(_key(temperature))
-        if g is not None:
-            _GRIDS.move_to_end(_key(temperature))
+        key = _key(temperature)
+        with _LOCK:
+            g = _GRIDS.get(key)
+            if g is not None:
+                _GRIDS.move_to_end(key)
         return g
     return None
 
@@ -303,14 +309,14 @@ def prepared_grid(temperature) -> TemperatureGrid:
     if T.size > BLOCK_T:
         return TemperatureGrid(T)
     key = _key(T)
-    g = _GRIDS.get(key)
-    if g is None:
-        g = TemperatureGrid(T)
-        _GRIDS[key] = g
-        if len(_GRIDS) > CACHE_GRIDS:
-            _GRIDS.popitem(last=False)
-    else:
-        _GRIDS.move_to_end(key)
+    with _LOCK:
+        g = _GRIDS.get(key)
+        if g is None:
+            g = _GRIDS[key] = TemperatureGrid(T)
+            if len(_GRIDS) > CACHE_GRIDS:
+                _GRIDS.popitem(last=False)
+        else:
+            _GRIDS.move_to_end(key)
     return g
 
 
@@ -626,9 +632,10 @@ class LatticeModel:
         except TypeError:  # a mechanism with unhashable fields: not kept
             return _checked_rate(mech, nodes.branch, nodes.omega, Tcol)
         r = _checked_rate(mech, nodes.branch, nodes.omega, Tcol)
-        if len(nodes.rates) >= CACHE_RATES:
-            nodes.rates.pop(next(iter(nodes.rates)))
-        nodes.rates[mech] = r
+        with _LOCK:
+            if len(nodes.rates) >= CACHE_RATES:
+                nodes.rates.pop(next(iter(nodes.rates)), None)
+            nodes.rates[mech] = r
         return r
 
     def _branch_sums(self, grid: TemperatureGrid, branch: Branch):
