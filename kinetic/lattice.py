@@ -811,21 +811,27 @@ class LatticeModel:
         1.0
         """
         names = [names] if isinstance(names, str) else list(names)
-        info = self.parameter_info()
+        # rate power of every parameter, from the class declarations (cheaper than parameter_info)
+        info = {f"{m.name}.{p}": m._spec[p].power for m in self.scattering for p in m._spec
+                if getattr(m, p) is not None}
         for n in names:
             if n not in info:
                 raise ParameterError(f"unknown parameter {n!r}; valid names: {', '.join(info)}")
-        T = _temperature(temperature)
-        shape = np.shape(T)
-        Tf = np.ascontiguousarray(np.atleast_1d(T), dtype=float).ravel()
+        grid = _cached_grid(temperature)
+        if grid is not None:
+            T, shape, Tf = grid.temperature, grid.shape, grid.temperature
+        else:
+            T = _temperature(temperature)
+            shape = np.shape(T)
+            Tf = np.ascontiguousarray(np.atleast_1d(T), dtype=float).ravel()
         if Tf.size > BLOCK_T:
             pieces = [self.kappa_jacobian(Tf[i:i + BLOCK_T], names) for i in range(0, Tf.size, BLOCK_T)]
             k = np.concatenate([p[0] for p in pieces])
             J = np.concatenate([p[1] for p in pieces])
             return k.reshape(shape), J.reshape(shape + (len(names),))
-        grid = prepared_grid(Tf)
+        grid = grid or prepared_grid(Tf)
         J = np.zeros((Tf.size, len(names)))
-        analytic = [j for j, n in enumerate(names) if info[n].rate_power is not None]
+        analytic = [j for j, n in enumerate(names) if info[n] is not None]
         kappa = np.zeros(Tf.size)
         for b in self.branches:
             I1, I2, I3, ctx = self._branch_sums(grid, b)
@@ -834,49 +840,62 @@ class LatticeModel:
             if analytic:
                 self._branch_jacobian(grid, b, I1, I2, I3, ctx, names, analytic, info, J)
         for j, n in enumerate(names):
-            if info[n].rate_power is None:
-                J[:, j] = self._difference(grid, n, info[n])
+            if info[n] is None:
+                J[:, j] = self._difference(grid, n, self.parameter_info()[n])
         return kappa.reshape(shape), J.reshape(shape + (len(names),))
 
     def _branch_jacobian(self, grid, branch, I1, I2, I3, ctx, names, analytic, info, J):
+        """Add one branch's exact derivatives d kappa_b / d c for the power-law parameters to J."""
         nodes, f1, F1, r_c, r_res, r_n, corr = ctx
-        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
-            h = f1 / r_c  # w * base / r_c^2
-            H = F1 / r_c[:, :2]
-        lazy = {}
-
-        def weighted(kind):
-            # h, h * s, h * s^2 with s = r_n (resistive parameter) or r_res (Normal parameter)
-            if kind not in lazy:
-                s = r_n if kind == "res" else r_res
-                hs = h * s
-                Hs = H * s[:, :2]
-                lazy[kind] = (hs, hs * s, Hs, Hs * s[:, :2])
-            return lazy[kind]
-
-        I3s = np.where(I3 > 0, I3, 1.0)
+        mechs = {m.name: m for m in self.scattering}
+        todo = []  # (column j, mechanism, d rate / d value = c * rate)
         for j in analytic:
             mname, pname = names[j].split(".", 1)
-            mech = self.mechanism(mname)
-            if not mech.applies(branch):
-                continue
-            value = float(getattr(mech, pname))
-            rho = np.broadcast_to(self._node_rates(nodes, grid.Tcol, mech), nodes.shape)
-            c = info[names[j]].rate_power / value  # d rate / d value = c * rate
-            rho01 = rho[:, :2]
-            a = np.einsum("ij,ij->i", h, rho) + nodes.tail(H * rho01)
+            mech = mechs[mname]
+            if mech.applies(branch):
+                todo.append((j, mech, info[names[j]] / float(getattr(mech, pname))))
+        if not todo:
+            return
+        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+            h = f1 / r_c  # weight * base / r_c^2
+            H = F1 / r_c[:, :2]
+            stacks = {}
+
+            def stack(kind):
+                # (h, h s, h s^2) and their two lowest columns, s = r_n (resistive) or r_res (Normal)
+                if kind not in stacks:
+                    if not corr:
+                        stacks[kind] = (h[None], H[None])
+                    else:
+                        sv = r_n if kind == "res" else r_res
+                        hs = h * sv
+                        s01 = sv[:, :2]
+                        Hs = H * s01
+                        stacks[kind] = (np.stack([h, hs, hs * sv]), np.stack([H, Hs, Hs * s01]))
+                return stacks[kind]
+
+            sums, cols = [], []
+            for j, mech, c in todo:
+                kind = "res" if (mech.resistive or not self.normal_correction) else "n"
+                Hk, H01 = stack(kind)
+                rho = np.broadcast_to(self._node_rates(nodes, grid.Tcol, mech), nodes.shape)
+                sums.append(np.einsum("kij,ij->ki", Hk, rho))
+                cols.append(H01 * rho[None, :, :2])
+            tails = nodes.tails(np.concatenate(cols))
+        at = 0
+        I3s = np.where(I3 > 0, I3, 1.0)
+        for (j, mech, c), sm in zip(todo, sums):
+            k = sm.shape[0]
+            abc = sm + tails[at:at + k]
+            at += k
             if not corr:
-                J[:, j] += -c * a
+                J[:, j] -= c * abc[0]
                 continue
-            kind = "res" if (mech.resistive or not self.normal_correction) else "n"
-            hs, hss, Hs, Hss = weighted(kind)
-            b_ = np.einsum("ij,ij->i", hs, rho) + nodes.tail(Hs * rho01)
-            c_ = np.einsum("ij,ij->i", hss, rho) + nodes.tail(Hss * rho01)
-            dI1 = -a
-            if kind == "res":
-                dI2, dI3 = -b_, c_
+            dI1 = -abc[0]
+            if mech.resistive or not self.normal_correction:
+                dI2, dI3 = -abc[1], abc[2]
             else:
-                dI2, dI3 = b_, c_
+                dI2, dI3 = abc[1], abc[2]
             dk = dI1 + np.where(I3 > 0, (2.0 * I2 * dI2 * I3 - I2 * I2 * dI3) / (I3s * I3s), 0.0)
             J[:, j] += c * dk
 
