@@ -51,18 +51,19 @@ import numpy as np
 from scipy.constants import hbar, k as kB
 
 from . import quadrature as quad
-from ._callaway import MAX_LONG_PATH_SHARE, MAX_MEAN_FREE_PATH, _CallawaySums
+from ._callaway import MAX_LONG_PATH_SHARE as MAX_LONG_PATH_SHARE
+from ._callaway import MAX_MEAN_FREE_PATH as MAX_MEAN_FREE_PATH
+from ._callaway import _CallawaySums
 from ._validate import nonnegative, positive
 from .dispersion import Branch
 from .errors import ParameterError
-from .grid import BLOCK_T, TemperatureGrid, _temperature, clear_cache, prepared_grid
+from .grid import BLOCK_T as BLOCK_T
+from .grid import TemperatureGrid, _temperature, clear_cache, prepared_grid
 from .quantities import to_si
 from .scattering import Mechanism, mechanism_from_dict
 from .spectrum import Spectrum
 
 __all__ = ["LatticeModel", "Spectrum", "TemperatureGrid", "prepared_grid", "clear_cache"]
-# re-exported for callers of the engine's settings
-_SETTINGS = (BLOCK_T, MAX_MEAN_FREE_PATH, MAX_LONG_PATH_SHARE)
 
 
 @dataclass(frozen=True)
