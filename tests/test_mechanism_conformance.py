@@ -211,3 +211,9 @@ def test_registration_refuses_incomplete_classes():
         clone = _broken("boundary", 1.0)
         register(clone)
     assert "no_label_kind" not in MECHANISMS and MECHANISMS["boundary"] is Boundary
+
+
+def test_registry_order_is_the_order_users_see():
+    # the workbench's "add mechanism" list and the CLI follow MECHANISMS' order: the common ones first
+    assert list(MECHANISMS)[:7] == ["boundary", "point_defect", "umklapp", "normal", "electron_phonon",
+                                    "dislocation", "precipitate"]

@@ -26,23 +26,20 @@ conformance suite (tests/test_mechanism_conformance.py) pick it up from
 """
 from __future__ import annotations
 
+# ruff: noqa: I001  (the import order below is the registration order, i.e. the order of MECHANISMS)
 from ._base import MECHANISMS, Mechanism, mechanism_from_dict, register
-from ._base import _full as _full
-from ._base import _omega_T as _omega_T
-from ._base import _power as _power
-from ._base import _scaled as _scaled
 
 # helpers for mechanism authors (kept importable from here)
-from ._base import _Spec as _Spec
+from ._base import _Spec as _Spec, _full as _full, _omega_T as _omega_T, _power as _power, _scaled as _scaled
 
-# one module per mechanism; importing registers it (this order is the order of MECHANISMS)
+# one module per mechanism; importing registers it, in this order
 from .boundary import Boundary
-from .dislocation import Dislocation
-from .electron_phonon import ElectronPhonon
-from .normal import Normal
 from .point_defect import PointDefect
-from .precipitate import Precipitate
 from .umklapp import Umklapp
+from .normal import Normal
+from .electron_phonon import ElectronPhonon
+from .dislocation import Dislocation
+from .precipitate import Precipitate
 
 __all__ = [
     "Mechanism",
