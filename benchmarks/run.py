@@ -80,7 +80,7 @@ def main(argv=None):
     width = max([len(r[0]) for r in rows] + [40])
     vwidth = max([len(r[1]) for r in rows] + [8])
     print(f"kinetic benchmarks ({os.cpu_count()} CPUs, Python {platform.python_version()}, numpy {np.__version__}; "
-          "times are the best of repeats, wall clock)")
+          "each benchmark says how it times)")
     for name, rs, secs in results:
         print(f"[{name}]" + (f"  ({secs:.1f} s)" if secs else ""))
         if isinstance(rs, str):
