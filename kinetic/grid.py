@@ -101,7 +101,9 @@ class _BranchNodes:
                  "ones")
 
     def __init__(self, branch: Branch, T: np.ndarray):
-        x_max = branch.debye_temperature / T
+        # x = hbar omega / kB T at the zone edge (theta / T on a Debye branch; read from omega_max so
+        # that any convention for a sine branch's zone-edge frequency is followed)
+        x_max = (hbar * branch.omega_max / kB) / T
         r = np.minimum(1.0, quad.X_CUT / x_max)
         sine = branch.dispersion == "sine"
         u_hi = (2.0 / np.pi) * np.arcsin(r) if sine else r
