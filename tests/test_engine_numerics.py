@@ -166,8 +166,10 @@ def test_silicon_default_model_at_room_temperature_in_celsius():
     # issue 9: Q(26.85, 'degC') gave the value at 26.85 K (175.7) instead of 300 K (146.6 W/m/K)
     from kinetic.fitting import default_model
     si = default_model("Si")
-    assert float(si.kappa(Q(26.85, "degC"))) == pytest.approx(float(si.kappa(300.0)), rel=1e-12)
-    assert float(si.kappa(Q(26.85, "degC"))) == pytest.approx(146.6, rel=0.01)  # the issue's figure
+    # (the value itself belongs to the preset's calibration and may move; the door must not)
+    k = float(si.kappa(Q(26.85, "degC")))
+    assert k == pytest.approx(float(si.kappa(300.0)), rel=1e-12)
+    assert k != pytest.approx(float(si.kappa(26.85)), rel=1e-3)
 
 
 @pytest.mark.parametrize("value, match", [
