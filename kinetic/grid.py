@@ -133,6 +133,7 @@ class _BranchNodes:
         self.branch = branch
         self.T = T
         self.u_hi = u_hi
+        omega.setflags(write=False)  # shared with the mechanisms (and their kept powers of omega)
         self.omega = omega
         self.wbase = wbase
         w01 = weights[None, :2] * (u_hi[:, None] * exp_off[None, :2])

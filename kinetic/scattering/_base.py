@@ -175,7 +175,7 @@ def _scaled(r, factor):
     return r * factor
 
 
-def _power(x, n: float):
+def _raw_power(x, n: float):
     """x**n with the common small integer powers done by multiplication (fast)."""
     if n == 1.0:
         return x
@@ -185,8 +185,34 @@ def _power(x, n: float):
         return x * x * x
     if n == 4.0:
         x2 = x * x
-        return x2 * x2
+        x2 *= x2
+        return x2
     return x**n
+
+
+#: x**n of read-only arrays (the engine's node frequencies and temperatures), by identity
+_POWERS: dict = {}
+
+
+def _power(x, n: float):
+    """x**n; for a read-only array (the engine's nodes) the result is kept and shared, read-only.
+
+    Mechanisms meet the same node frequencies on every call of a prepared grid,
+    so omega^2, omega^3, omega^4 are computed once per grid. Never modify the
+    result in place.
+    """
+    if n == 1.0 or not (isinstance(x, np.ndarray) and not x.flags.writeable and x.size > 64):
+        return _raw_power(x, n)
+    key = (id(x), float(n))
+    hit = _POWERS.get(key)
+    if hit is not None and hit[0] is x:  # the kept reference keeps the id from being reused
+        return hit[1]
+    out = _raw_power(x, n)
+    out.setflags(write=False)
+    if len(_POWERS) >= 24:
+        _POWERS.pop(next(iter(_POWERS)), None)
+    _POWERS[key] = (x, out)
+    return out
 
 
 #: kind -> mechanism class, every registered mechanism (see :func:`register`)

@@ -4,7 +4,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 from typing import ClassVar
 
-from ._base import Mechanism, _omega_T, _power, _scaled, _Spec, register
+from ._base import Mechanism, _omega_T, _power, _Spec, register
 
 __all__ = ["Normal"]
 
@@ -48,7 +48,4 @@ class Normal(Mechanism):
 
     def rate(self, omega, T, branch):
         omega, T = _omega_T(omega, T)
-        w = _power(omega, self.omega_power)
-        if w is omega:
-            w = w.copy()
-        return _scaled(w, self.B * _power(T, self.temperature_power))
+        return _power(omega, self.omega_power) * (self.B * _power(T, self.temperature_power))

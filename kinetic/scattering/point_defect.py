@@ -8,7 +8,7 @@ import numpy as np
 
 from ..dispersion import Branch
 from ..errors import ParameterError
-from ._base import Mechanism, _omega_T, _scaled, _Spec, register
+from ._base import Mechanism, _omega_T, _power, _Spec, register
 
 __all__ = ["PointDefect"]
 
@@ -84,6 +84,4 @@ class PointDefect(Mechanism):
 
     def rate(self, omega, T, branch):
         omega, T = _omega_T(omega, T)
-        r = omega * omega
-        r = _scaled(r, r)
-        return _scaled(r, self.coefficient(branch))
+        return _power(omega, 4.0) * self.coefficient(branch)

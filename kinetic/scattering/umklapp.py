@@ -9,7 +9,7 @@ from scipy.constants import atomic_mass, hbar
 
 from ..dispersion import Branch
 from ..errors import ParameterError
-from ._base import Mechanism, _omega_T, _scaled, _Spec, register
+from ._base import Mechanism, _omega_T, _power, _Spec, register
 
 __all__ = ["Umklapp"]
 
@@ -104,4 +104,4 @@ class Umklapp(Mechanism):
     def rate(self, omega, T, branch):
         omega, T = _omega_T(omega, T)
         # exp of a large negative argument underflows quietly to 0 (no warning).
-        return _scaled(omega * omega, self.coefficient(branch) * T * np.exp(-branch.debye_temperature / (self.b * T)))
+        return _power(omega, 2.0) * (self.coefficient(branch) * T * np.exp(-branch.debye_temperature / (self.b * T)))
