@@ -13,7 +13,8 @@ Speed ratios are against the script a user would write by hand (a per-temperatur
 ``scipy.integrate.quad`` loop at scipy's default tolerances, see
 bench_engine.py); the tight adaptive check :func:`kinetic.checks.kappa_adaptive`
 appears only as the accuracy reference. The last line says how long the whole
-run took (about a minute on 2 CPUs).
+run took: about 20-30 s on 2 shared CPUs (measured 22 s with the engine, fit and
+widget benchmarks; the engine part alone 7-11 s, most of it the accuracy reference).
 """
 from __future__ import annotations
 
