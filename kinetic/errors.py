@@ -26,3 +26,12 @@ class RecordError(KineticError, ValueError):
 
 class FitError(KineticError, RuntimeError):
     """A fit could not be set up or was cancelled."""
+
+
+class ModelError(KineticError, ValueError):
+    """A model cannot give a meaningful conductivity.
+
+    For example a scattering mechanism returned a NaN, infinite or negative
+    rate (the message names the mechanism), or nothing limits the mean free
+    path of long-wavelength phonons (no boundary term).
+    """

@@ -22,6 +22,25 @@ where <.> is the kinetic integral above (Callaway 1959, Eqs. 22-24; branch by
 branch as in Morelli, Heremans & Slack, Phys. Rev. B 66, 195304, 2002). The
 same result is kappa_b = <tau_eff> with tau_eff = tau_c (1 + beta / tau_N),
 beta = I2 / I3, which the spectral and mean-free-path outputs use.
+
+Speed. Each temperature array met is prepared once (:class:`TemperatureGrid`,
+kept by :func:`prepared_grid`, least recently used dropped): the quadrature
+nodes of every branch, omega at the nodes and the Planck-weighted integrand.
+The rate of every mechanism instance is kept on the grid too, so a slider move
+or a fit step (one parameter changed) recomputes one rate and the sums, with no
+Python loop over temperatures or frequencies. Mechanisms are frozen
+dataclasses, so an instance's rate depends only on its fields.
+
+Safety. A rate that is NaN, infinite or negative is refused once, when it is
+first computed, with a :class:`~kinetic.errors.ModelError` naming the
+mechanism, the branch, omega and T. A branch that no mechanism bounds at long
+wavelength (no boundary term) is refused where more than 1 % of its heat would
+be carried by phonons with mean free paths beyond 1 m. Temperatures may be
+pint quantities (see :mod:`kinetic.quantities`).
+
+Derivatives. :meth:`LatticeModel.kappa_jacobian` differentiates the integrals
+exactly for every parameter whose rate goes as a power of it
+(``Parameter.rate_power``), Callaway's term included.
 """
 from __future__ import annotations
 
@@ -32,77 +51,23 @@ import numpy as np
 from scipy.constants import hbar, k as kB
 
 from . import quadrature as quad
-from ._validate import temperatures as _check_T, positive
+from ._callaway import MAX_LONG_PATH_SHARE as MAX_LONG_PATH_SHARE
+from ._callaway import MAX_MEAN_FREE_PATH as MAX_MEAN_FREE_PATH
+from ._callaway import _CallawaySums
+from ._validate import nonnegative, positive
 from .dispersion import Branch
 from .errors import ParameterError
+from .grid import BLOCK_T as BLOCK_T
+from .grid import TemperatureGrid, _temperature, clear_cache, prepared_grid
+from .quantities import to_si
 from .scattering import Mechanism, mechanism_from_dict
+from .spectrum import Spectrum
 
-__all__ = ["LatticeModel", "Spectrum"]
-
-#: Temperatures per block of the (T x node) arrays. Blocks of 80 x 151 (171 on sine
-#: branches) numbers
-#: (< 128 KiB) stay in the CPU cache and are served from the heap rather than by
-#: fresh memory maps, whose page faults cost more than the arithmetic on this
-#: size of array (measured: 2.5x slower for one 200 x 151 block on 2 cores).
-BLOCK_T = 80
-
-
-def _blocks(n: int):
-    """Slices covering range(n) in blocks of BLOCK_T temperatures (vectorised within a block)."""
-    return [slice(i, min(i + BLOCK_T, n)) for i in range(0, n, BLOCK_T)]
+__all__ = ["LatticeModel", "Spectrum", "TemperatureGrid", "prepared_grid", "clear_cache"]
 
 
 @dataclass(frozen=True)
-class Spectrum:
-    """Spectral and mean-free-path resolved conductivity at one temperature.
-
-    Attributes
-    ----------
-    temperature : float
-        [K]
-    omega : dict of str -> ndarray
-        Angular-frequency grid of each branch [rad s^-1].
-    kappa_omega : dict of str -> ndarray
-        Conductivity per unit angular frequency, d kappa / d omega, of each
-        branch [W m^-1 K^-1 / (rad s^-1)].
-    cumulative : dict of str -> ndarray
-        Running integral of ``kappa_omega`` over ``omega`` [W m^-1 K^-1].
-    mfp : ndarray
-        Mean free paths v_g tau_eff of all quadrature nodes, ascending [m].
-    kappa_accumulated : ndarray
-        Conductivity carried by phonons with mean free path <= ``mfp``
-        [W m^-1 K^-1]; its last value is the total conductivity.
-    kappa : float
-        Total lattice conductivity [W m^-1 K^-1].
-    """
-
-    temperature: float
-    omega: dict
-    kappa_omega: dict
-    cumulative: dict
-    mfp: np.ndarray
-    kappa_accumulated: np.ndarray
-    kappa: float
-
-    def fraction_below(self, length):
-        """Fraction of kappa carried by phonons with mean free path <= length [m]."""
-        length = np.asarray(length, dtype=float)
-        acc = np.interp(np.log(np.maximum(length, 1e-300)), np.log(self.mfp), self.kappa_accumulated,
-                        left=0.0, right=self.kappa)
-        return np.clip(acc / self.kappa, 0.0, 1.0)
-
-    def fraction_above(self, length):
-        """Fraction of kappa carried by phonons with mean free path > length [m]."""
-        return 1.0 - self.fraction_below(length)
-
-    @property
-    def median_mfp(self) -> float:
-        """Mean free path below which half the heat is carried [m]."""
-        return float(np.exp(np.interp(0.5 * self.kappa, self.kappa_accumulated, np.log(self.mfp))))
-
-
-@dataclass(frozen=True)
-class LatticeModel:
+class LatticeModel(_CallawaySums):
     """Lattice thermal conductivity from branches and scattering mechanisms.
 
     Parameters
@@ -272,9 +237,9 @@ class LatticeModel:
 
         Parameters
         ----------
-        omega : array_like
+        omega : array_like or pint Quantity
             Angular frequency [rad s^-1].
-        temperature : float or array_like
+        temperature : float or array_like or pint Quantity
             [K], broadcast against omega.
 
         Returns
@@ -283,8 +248,8 @@ class LatticeModel:
             ``{branch name: {mechanism name: rate [s^-1]}}`` (mechanisms that
             do not apply to a branch are left out of its entry).
         """
-        T = _check_T(temperature)
-        omega = np.asarray(omega, dtype=float)
+        T = _temperature(temperature)
+        omega = np.asarray(nonnegative("omega", to_si(omega, "rad/s", "omega"), unit="rad/s"), dtype=float)
         shape = np.broadcast_shapes(omega.shape, np.shape(T))
         return {
             b.name: {m.name: np.broadcast_to(m.rate(omega, T, b), shape).copy()
@@ -293,95 +258,32 @@ class LatticeModel:
         }
 
     # --- integrals ----------------------------------------------------------------
-    def _branch_nodes(self, branch: Branch, T: np.ndarray):
-        """Quadrature nodes for one branch at temperatures T (1-D).
-
-        Returns u, weights, omega [rad/s] and the Planck weight at each node.
-        """
-        x_max = branch.debye_temperature / T
-        capped = x_max >= quad.X_CUT
-        r = np.minimum(1.0, quad.X_CUT / x_max)
-        if branch.dispersion == "sine":
-            u_hi = (2.0 / np.pi) * np.arcsin(r)
-        else:
-            u_hi = r
-        u, w = quad.log_nodes(u_hi, branch.dispersion)
-        omega = branch.omega_of_u(u)
-        if branch.dispersion == "debye":
-            # x = hbar omega / kB T = x_max u; below theta / X_CUT every temperature
-            # sees the same x nodes, so one precomputed Planck row serves them all.
-            if np.all(capped):
-                pw = np.broadcast_to(quad.PLANCK_AT_CUT, u.shape)
-            elif np.any(capped):
-                pw = np.empty_like(u)
-                pw[capped] = quad.PLANCK_AT_CUT
-                pw[~capped] = quad.planck_weight(x_max[~capped, None] * u[~capped])
-            else:
-                pw = quad.planck_weight(x_max[:, None] * u)
-        else:
-            pw = quad.planck_weight((hbar / kB) * omega / T[:, None])
-        return u, w, omega, pw
-
-    def _branch_integrals(self, branch: Branch, T: np.ndarray):
-        """Callaway integrals (I1, I2, I3) and helpers for one branch."""
-        u, w, omega, pw = self._branch_nodes(branch, T)
-        vg = branch.group_velocity_of_u(u)
-        pref = branch.polarizations * branch.q_max**3 * kB / (6.0 * np.pi**2)
-        base = (pref * vg * vg) * pw * (u * u)  # integrand / tau, in du
-        r_res, r_n = self._split_rates(omega, T[:, None], branch)
-        has_n = self.has_normal_correction(branch)
-        r_c = r_res + r_n if has_n else r_res
-        f1 = base / r_c
-        I1 = np.einsum("ij,ij->i", w, f1) + quad.lower_tail(u, f1)
-        if has_n:
-            f2 = f1 * r_n
-            I2 = np.einsum("ij,ij->i", w, f2) + quad.lower_tail(u, f2)
-            f3 = f2 * r_res
-            I3 = np.einsum("ij,ij->i", w, f3) + quad.lower_tail(u, f3)
-        else:
-            I2 = I3 = np.zeros_like(I1)
-        return I1, I2, I3, (u, w, omega, vg, base, 1.0 / r_c, r_n)
-
-    def kappa_parts(self, temperature) -> dict:
-        """Lattice conductivity of each branch [W m^-1 K^-1], shaped like temperature."""
-        T = _check_T(temperature)
-        shape = np.shape(T)
-        Tf = np.atleast_1d(T).ravel()
-        out = {}
-        for b in self.branches:
-            k = np.empty_like(Tf)
-            for sl in _blocks(Tf.size):
-                I1, I2, I3, _ = self._branch_integrals(b, Tf[sl])
-                k[sl] = I1 + np.divide(I2 * I2, I3, out=np.zeros_like(I1), where=I3 > 0)
-            out[b.name] = k.reshape(shape)
-        return out
-
-    def kappa(self, temperature):
-        """Lattice thermal conductivity [W m^-1 K^-1] at each temperature [K].
-
-        Examples
-        --------
-        >>> from kinetic import Branch, Boundary
-        >>> m = LatticeModel([Branch(5000.0, 400.0)], [Boundary(1e-3)])
-        >>> round(float(m.kappa(1.0)), 4)   # Casimir limit: 1.6308 W/m/K
-        1.6308
-        """
-        parts = self.kappa_parts(temperature)
-        return sum(parts.values())
 
     def heat_capacity(self, temperature):
-        """Debye heat capacity per volume of the branches [J m^-3 K^-1]."""
-        T = _check_T(temperature)
+        """Debye heat capacity per volume of the branches [J m^-3 K^-1] at temperatures [K]."""
+        T = _temperature(temperature)
         shape = np.shape(T)
-        Tf = np.atleast_1d(T).ravel()
+        Tf = np.ascontiguousarray(np.atleast_1d(T), dtype=float).ravel()
         total = np.zeros_like(Tf)
-        for b in self.branches:
-            pref = b.polarizations * b.q_max**3 * kB / (2.0 * np.pi**2)
-            for sl in _blocks(Tf.size):
-                u, w, omega, pw = self._branch_nodes(b, Tf[sl])
+        for i in range(0, Tf.size, BLOCK_T):
+            grid = prepared_grid(Tf[i:i + BLOCK_T])
+            for b in self.branches:
+                nodes = grid.nodes(b)
+                pref = b.polarizations * b.q_max**3 * kB / (2.0 * np.pi**2)
+                u, w, pw = nodes.full()
                 f = pref * pw * u * u
-                total[sl] += np.einsum("ij,ij->i", w, f) + quad.lower_tail(u, f)
+                total[i:i + BLOCK_T] += np.einsum("ij,ij->i", w, f) + nodes.tail(f[:, :2])
         return total.reshape(shape)
+
+    def _branch_integrals(self, branch: Branch, T: np.ndarray):
+        """Callaway integrals (I1, I2, I3) and node arrays of one branch (spectral output)."""
+        grid = prepared_grid(T)
+        I1, I2, I3, (nodes, f1, F1, r_c, r_res, r_n, corr) = self._branch_sums(grid, branch)
+        self._check_mean_free_path(grid, branch, I1, (nodes, f1, F1, r_c, r_res, r_n, corr))
+        r_nn = r_n if corr else np.zeros(nodes.shape)
+        u, w, _ = nodes.full()
+        base = nodes.wbase / w
+        return I1, I2, I3, (u, w, nodes.omega, nodes.branch.group_velocity_of_u(u), base, 1.0 / r_c, r_nn.copy())
 
     def spectral(self, temperature: float, n_omega: int = 400) -> Spectrum:
         """Spectral and mean-free-path accumulation at one temperature [K].
@@ -391,7 +293,10 @@ class LatticeModel:
         mean-free-path accumulation uses the engine's quadrature nodes, so its
         last value equals :meth:`kappa` exactly.
         """
-        T = float(_check_T(temperature))
+        T = _temperature(temperature)
+        if np.size(T) != 1:
+            raise ParameterError(f"temperature must be a single number [K], got {np.size(T)} values")
+        T = float(np.ravel(T)[0])
         Tf = np.array([T])
         n_omega = int(positive("n_omega", n_omega))
         omegas, k_om, cums, mfps, contribs = {}, {}, {}, [], []

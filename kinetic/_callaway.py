@@ -1,0 +1,331 @@
+"""The Callaway sums of :class:`kinetic.LatticeModel` on a prepared grid, and their derivatives.
+
+Kept apart from the model's bookkeeping (:mod:`kinetic.lattice`): this is the
+engine's hot path. Per branch, the kept rates are summed into per-thread work
+arrays, I1 = sum(w base / tau_c^-1), I2 and I3 follow with one product each,
+and the closed-form tails below the lowest node are added in one pass.
+:meth:`_CallawaySums.kappa_jacobian` differentiates the same sums exactly for
+power-law parameters.
+"""
+from __future__ import annotations
+
+from typing import Sequence
+
+import numpy as np
+
+from .dispersion import Branch
+from .errors import ModelError, ParameterError
+from .grid import (BLOCK_T, CACHE_RATES, TemperatureGrid, _BranchNodes, _LOCK, _cached_grid, _checked_rate,
+                   _sum_into, _temperature, prepared_grid)
+
+#: Mean free path [m] beyond any specimen (the boundary length's upper bound is
+#: 0.1 m); see MAX_LONG_PATH_SHARE.
+MAX_MEAN_FREE_PATH = 1.0
+#: Largest share of a branch's conductivity allowed to come from phonons with
+#: mean free paths beyond MAX_MEAN_FREE_PATH when no mechanism bounds them: above
+#: it the result depends on a specimen size the model does not know.
+MAX_LONG_PATH_SHARE = 0.01
+
+
+class _CallawaySums:
+    """Mixin of :class:`kinetic.LatticeModel`: kappa on a prepared grid, and its Jacobian."""
+
+    def _node_rates(self, nodes: _BranchNodes, Tcol, mech):
+        """A mechanism's rate on a branch's nodes, kept on the grid for the next call."""
+        try:
+            return nodes.rates[mech]
+        except KeyError:
+            pass
+        except TypeError:  # a mechanism with unhashable fields: not kept
+            return _checked_rate(mech, nodes.branch, nodes.omega, Tcol)
+        r = _checked_rate(mech, nodes.branch, nodes.omega, Tcol)
+        with _LOCK:
+            if len(nodes.rates) >= CACHE_RATES:
+                nodes.rates.pop(next(iter(nodes.rates)), None)
+            nodes.rates[mech] = r
+        return r
+
+    def _branch_sums(self, grid: TemperatureGrid, branch: Branch):
+        """Callaway integrals of one branch on a prepared grid.
+
+        Returns ``(I1, I2, I3, ctx)``, ``ctx`` holding the node arrays reused by
+        the Jacobian, the spectral output and the mean-free-path check.
+        """
+        nodes = grid.nodes(branch)
+        Tcol = grid.Tcol
+        corr = self.has_normal_correction(branch)
+        res, nrm = [], []
+        for m in self.scattering:
+            if m.applies(branch):
+                r = self._node_rates(nodes, Tcol, m)
+                (res if (m.resistive or not self.normal_correction) else nrm).append(r)
+        buf = nodes.scratch()
+        r_res = _sum_into(buf[0], res)
+        r_n = _sum_into(buf[1], nrm) if corr else None
+        r_c, f1 = buf[2], buf[3]
+        if corr:
+            np.add(r_res, r_n, out=r_c)
+        else:
+            r_c = r_res
+        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+            np.divide(nodes.wbase, r_c, out=f1)
+            I1 = f1 @ nodes.ones  # row sums (matrix-vector product: faster than .sum on these shapes)
+            if corr:
+                I2 = np.einsum("ij,ij->i", f1, r_n)
+                g = np.multiply(f1, r_res, out=buf[4])
+                I3 = np.einsum("ij,ij->i", g, r_n)
+                F = np.empty((3,) + I1.shape + (2,))
+                np.divide(nodes.base01, r_c[:, :2], out=F[0])
+                np.multiply(F[0], r_n[:, :2], out=F[1])
+                np.multiply(F[1], r_res[:, :2], out=F[2])
+                tails = nodes.tails(F)
+                I1 += tails[0]
+                I2 += tails[1]
+                I3 += tails[2]
+                F1 = F[0]
+            else:
+                F1 = nodes.base01 / r_c[:, :2]
+                I1 += nodes.tails(F1[None])[0]
+                I2 = I3 = np.zeros_like(I1)
+        return I1, I2, I3, (nodes, f1, F1, r_c, r_res, r_n, corr)
+
+    @staticmethod
+    def _combine(I1, I2, I3):
+        """Callaway's kappa = I1 + I2^2 / I3 (I3 = 0 without Normal processes)."""
+        return I1 + np.divide(I2 * I2, I3, out=np.zeros_like(I1), where=I3 > 0)
+
+    def _check_mean_free_path(self, grid, branch, I1, ctx):
+        """Refuse a branch whose heat is carried by phonons with unbounded mean free paths.
+
+        Only for branches without a mechanism that bounds the mean free path
+        (``limits_mean_free_path``, e.g. a boundary): the share of I1 carried by
+        phonons with mean free paths v_g tau_c beyond :data:`MAX_MEAN_FREE_PATH`
+        (tail below the lowest node included) must stay under
+        :data:`MAX_LONG_PATH_SHARE`.
+        """
+        if any(getattr(m, "limits_mean_free_path", False) and m.applies(branch) for m in self.scattering):
+            if not np.all(np.isfinite(I1)):
+                i = int(np.flatnonzero(~np.isfinite(I1))[0])
+                raise ModelError(
+                    f"branch {branch.name!r} at T = {grid.temperature[i]:.4g} K: the conductivity integral is not "
+                    "finite (a total scattering rate of zero at some frequency)"
+                )
+            return
+        nodes, f1, F1, r_c, *_ = ctx
+        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+            long = (np.broadcast_to(nodes.vg, f1.shape) / r_c) > MAX_MEAN_FREE_PATH
+            share = (np.einsum("ij,ij->i", f1, long) + np.where(long[:, 0], I1 - f1.sum(axis=1), 0.0)) / I1
+        bad = ~(share <= MAX_LONG_PATH_SHARE)
+        if np.any(bad):
+            i = int(np.flatnonzero(bad)[0])
+            raise ModelError(
+                f"branch {branch.name!r} at T = {grid.temperature[i]:.4g} K: {100 * min(share[i], 1.0):.3g}% of the "
+                f"heat would be carried by phonons with mean free paths beyond {MAX_MEAN_FREE_PATH:g} m, longer than "
+                "any specimen, because no mechanism limits long-wavelength phonons; add a boundary term, e.g. "
+                "Boundary(length=1e-3) for a 1 mm sample"
+            )
+
+    def _parts_on_grid(self, grid: TemperatureGrid) -> dict:
+        out = {}
+        for b in self.branches:
+            I1, I2, I3, ctx = self._branch_sums(grid, b)
+            self._check_mean_free_path(grid, b, I1, ctx)
+            out[b.name] = self._combine(I1, I2, I3)
+        return out
+
+    def kappa_parts(self, temperature) -> dict:
+        """Lattice conductivity of each branch [W m^-1 K^-1], shaped like temperature.
+
+        ``temperature`` [K] may be a number, an array, a pint quantity (any
+        temperature unit) or a :class:`TemperatureGrid`.
+
+        Raises
+        ------
+        ParameterError
+            For temperatures that are not finite and > 0, or not temperatures.
+        ModelError
+            When a mechanism returns a NaN, infinite or negative rate (the
+            message names it) or nothing limits the mean free path of
+            long-wavelength phonons (no boundary term).
+        """
+        grid = temperature if isinstance(temperature, TemperatureGrid) else _cached_grid(temperature)
+        if grid is not None:
+            return {k: v.reshape(grid.shape) for k, v in self._parts_on_grid(grid).items()}
+        T = _temperature(temperature)
+        shape = np.shape(T)
+        Tf = np.ascontiguousarray(np.atleast_1d(T), dtype=float).ravel()
+        if Tf.size <= BLOCK_T:
+            parts = self._parts_on_grid(prepared_grid(Tf))
+        else:
+            blocks = [self._parts_on_grid(TemperatureGrid(Tf[i:i + BLOCK_T])) for i in range(0, Tf.size, BLOCK_T)]
+            parts = {b.name: np.concatenate([blk[b.name] for blk in blocks]) for b in self.branches}
+        return {k: v.reshape(shape) for k, v in parts.items()}
+
+    def kappa(self, temperature):
+        """Lattice thermal conductivity [W m^-1 K^-1] at each temperature [K].
+
+        ``temperature`` may be a number, an array or a pint quantity; see
+        :meth:`kappa_parts` for the errors.
+
+        Examples
+        --------
+        >>> from kinetic import Branch, Boundary, LatticeModel
+        >>> m = LatticeModel([Branch(5000.0, 400.0)], [Boundary(1e-3)])
+        >>> round(float(m.kappa(1.0)), 4)   # Casimir limit: 1.6308 W/m/K
+        1.6308
+        """
+        parts = self.kappa_parts(temperature)
+        total = None
+        for v in parts.values():
+            total = v.copy() if total is None else total + v
+        return total
+
+    def kappa_jacobian(self, temperature, names: Sequence[str]):
+        """Conductivity and its derivatives with respect to model parameters.
+
+        Parameters
+        ----------
+        temperature : array_like or pint Quantity
+            [K]
+        names : sequence of str
+            ``"<mechanism>.<param>"`` keys of :attr:`params`.
+
+        Returns
+        -------
+        kappa : ndarray
+            [W m^-1 K^-1], shaped like ``temperature``.
+        J : ndarray
+            ``J[..., j] = d kappa / d params[names[j]]`` in the parameter's own
+            (natural, not log) unit, shape ``temperature.shape + (len(names),)``.
+
+        Notes
+        -----
+        A parameter whose mechanism's rate goes as a power of it
+        (``Parameter.rate_power``, e.g. a coefficient entering linearly, or a
+        boundary length as 1/L) gets the exact derivative of the integrals:
+        with d(1/tau_m)/dc = k (1/tau_m) / c, dI1 = -<rho / tau_c^-2>,
+        dI2 and dI3 likewise, and
+        d kappa = dI1 + (2 I2 dI2 I3 - I2^2 dI3) / I3^2 (Callaway's term
+        differentiated). Other parameters (exponents, specularity, Umklapp b)
+        get a central difference (one-sided at a bound) on the same nodes.
+
+        Examples
+        --------
+        >>> from kinetic import Branch, Boundary, LatticeModel
+        >>> m = LatticeModel([Branch(5000.0, 400.0)], [Boundary(1e-3)])
+        >>> k, J = m.kappa_jacobian([1.0], ["boundary.length"])
+        >>> round(float(J[0, 0] * 1e-3 / k[0]), 9)   # Casimir: kappa proportional to L
+        1.0
+        """
+        names = [names] if isinstance(names, str) else list(names)
+        # rate power of every parameter, from the class declarations (cheaper than parameter_info)
+        info = {f"{m.name}.{p}": m._spec[p].power for m in self.scattering for p in m._spec
+                if getattr(m, p) is not None}
+        for n in names:
+            if n not in info:
+                raise ParameterError(f"unknown parameter {n!r}; valid names: {', '.join(info)}")
+        grid = _cached_grid(temperature)
+        if grid is not None:
+            T, shape, Tf = grid.temperature, grid.shape, grid.temperature
+        else:
+            T = _temperature(temperature)
+            shape = np.shape(T)
+            Tf = np.ascontiguousarray(np.atleast_1d(T), dtype=float).ravel()
+        if Tf.size > BLOCK_T:
+            pieces = [self.kappa_jacobian(Tf[i:i + BLOCK_T], names) for i in range(0, Tf.size, BLOCK_T)]
+            k = np.concatenate([p[0] for p in pieces])
+            J = np.concatenate([p[1] for p in pieces])
+            return k.reshape(shape), J.reshape(shape + (len(names),))
+        grid = grid or prepared_grid(Tf)
+        J = np.zeros((Tf.size, len(names)))
+        analytic = [j for j, n in enumerate(names) if info[n] is not None]
+        kappa = np.zeros(Tf.size)
+        for b in self.branches:
+            I1, I2, I3, ctx = self._branch_sums(grid, b)
+            self._check_mean_free_path(grid, b, I1, ctx)
+            kappa += self._combine(I1, I2, I3)
+            if analytic:
+                self._branch_jacobian(grid, b, I1, I2, I3, ctx, names, analytic, info, J)
+        for j, n in enumerate(names):
+            if info[n] is None:
+                J[:, j] = self._difference(grid, n, self.parameter_info()[n])
+        return kappa.reshape(shape), J.reshape(shape + (len(names),))
+
+    def _branch_jacobian(self, grid, branch, I1, I2, I3, ctx, names, analytic, info, J):
+        """Add one branch's exact derivatives d kappa_b / d c for the power-law parameters to J."""
+        nodes, f1, F1, r_c, r_res, r_n, corr = ctx
+        mechs = {m.name: m for m in self.scattering}
+        todo = []  # (column j, mechanism, d rate / d value = c * rate)
+        for j in analytic:
+            mname, pname = names[j].split(".", 1)
+            mech = mechs[mname]
+            if mech.applies(branch):
+                todo.append((j, mech, info[names[j]] / float(getattr(mech, pname))))
+        if not todo:
+            return
+        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+            h = f1 / r_c  # weight * base / r_c^2
+            H = F1 / r_c[:, :2]
+            stacks = {}
+
+            def stack(kind):
+                # (h, h s, h s^2) and their two lowest columns, s = r_n (resistive) or r_res (Normal)
+                if kind not in stacks:
+                    if not corr:
+                        stacks[kind] = (h[None], H[None])
+                    else:
+                        sv = r_n if kind == "res" else r_res
+                        hs = h * sv
+                        s01 = sv[:, :2]
+                        Hs = H * s01
+                        stacks[kind] = (np.stack([h, hs, hs * sv]), np.stack([H, Hs, Hs * s01]))
+                return stacks[kind]
+
+            sums, cols = [], []
+            for _j, mech, _c in todo:
+                kind = "res" if (mech.resistive or not self.normal_correction) else "n"
+                Hk, H01 = stack(kind)
+                rho = np.broadcast_to(self._node_rates(nodes, grid.Tcol, mech), nodes.shape)
+                sums.append(np.einsum("kij,ij->ki", Hk, rho))
+                cols.append(H01 * rho[None, :, :2])
+            tails = nodes.tails(np.concatenate(cols))
+        at = 0
+        I3s = np.where(I3 > 0, I3, 1.0)
+        for (j, mech, c), sm in zip(todo, sums):
+            k = sm.shape[0]
+            abc = sm + tails[at:at + k]
+            at += k
+            if not corr:
+                J[:, j] -= c * abc[0]
+                continue
+            dI1 = -abc[0]
+            if mech.resistive or not self.normal_correction:
+                dI2, dI3 = -abc[1], abc[2]
+            else:
+                dI2, dI3 = abc[1], abc[2]
+            dk = dI1 + np.where(I3 > 0, (2.0 * I2 * dI2 * I3 - I2 * I2 * dI3) / (I3s * I3s), 0.0)
+            J[:, j] += c * dk
+
+    def _difference(self, grid, name, par):
+        """d kappa / d param by a central difference on the same nodes (one-sided at a bound)."""
+        v = float(par.value)
+        lo, hi = par.bounds
+        span = (hi - lo) if np.isfinite(hi - lo) else 1.0
+        h = 1e-5 * max(abs(v), 1e-3 * span)
+
+        def k_at(x):
+            try:
+                m = self.with_params({name: x})
+            except ParameterError:
+                return None
+            return sum(m._parts_on_grid(grid).values())
+
+        kp, km = k_at(v + h), k_at(v - h)
+        if kp is not None and km is not None:
+            return (kp - km) / (2.0 * h)
+        k0 = sum(self._parts_on_grid(grid).values())
+        if kp is not None:
+            return (kp - k0) / h
+        if km is not None:
+            return (k0 - km) / h
+        raise ParameterError(f"{name}: cannot step the value {v!r} by {h:g} inside its valid range")

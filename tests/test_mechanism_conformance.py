@@ -1,0 +1,219 @@
+"""Conformance of every registered scattering mechanism (driven by kinetic.scattering.MECHANISMS).
+
+A new mechanism class that is registered is checked here automatically: declared
+parameters with units, bounds, plain-words descriptions; a plain-words label and a
+colour on the class; finite, non-negative rates over the corners of its parameter
+box and seeded random points inside it; broadcasting over (T, omega);
+with_params / to_dict / from_dict round trips; and "adding a resistive or Normal
+mechanism never raises kappa". A deliberately broken mechanism, registered for one
+test, is refused by LatticeModel with its name.
+"""
+import itertools
+import math
+import re
+from dataclasses import dataclass
+from typing import ClassVar
+
+import numpy as np
+import pytest
+
+from kinetic import Boundary, Branch, LatticeModel, PointDefect, Umklapp
+from kinetic.errors import ModelError, ParameterError
+from kinetic.scattering import MECHANISMS, Mechanism, _Spec, mechanism_from_dict, register
+
+KINDS = sorted(MECHANISMS)
+BRANCHES = [Branch(8400.0, 570.0, 1, name="L"), Branch(5800.0, 400.0, 2, name="T"),
+            Branch(5000.0, 400.0, 3, dispersion="sine", name="S")]
+# temperatures 1 mK .. 1e5 K and frequencies up to the zone edge of the stiffest branch (x up to ~1e7)
+TEMPS = np.geomspace(1e-3, 1e5, 9)[:, None]
+OMEGA = np.geomspace(1e6, BRANCHES[0].omega_max, 40)[None, :]
+
+
+def _examples():
+    return [(kind, i, ex) for kind in KINDS for i, ex in enumerate(MECHANISMS[kind].examples())]
+
+
+EXAMPLES = _examples()
+IDS = [f"{k}-{i}" for k, i, _ in EXAMPLES]
+
+
+def _valid_range(spec):
+    lo, hi = spec.bounds
+    if spec.upper_open:
+        hi = hi * (1 - 1e-9)
+    return lo, hi
+
+
+def _points(mech, n_random=12, seed=0):
+    """Corners of the parameter box of this parameterisation, then seeded random points inside it."""
+    names = list(mech.values)
+    ranges = [_valid_range(mech._spec[p]) for p in names]
+    for corner in itertools.product(*ranges):
+        yield dict(zip(names, corner))
+    rng = np.random.default_rng(seed)
+    for _ in range(n_random):
+        pt = {}
+        for p, (lo, hi) in zip(names, ranges):
+            if mech._spec[p].log and lo > 0:
+                pt[p] = float(10 ** rng.uniform(math.log10(lo), math.log10(hi)))
+            else:
+                pt[p] = float(rng.uniform(lo, hi))
+        yield pt
+
+
+# ------------------------------------------------------------------ declarations
+@pytest.mark.parametrize("kind", KINDS)
+def test_class_declares_kind_label_colour_and_parameters(kind):
+    cls = MECHANISMS[kind]
+    assert cls.kind == kind and kind.isidentifier()
+    assert isinstance(cls.label, str) and cls.label.strip() and cls.label != kind
+    assert re.fullmatch(r"#[0-9a-fA-F]{6}", cls.colour)
+    assert cls._spec, "a mechanism declares at least one parameter"
+    for pname, spec in cls._spec.items():
+        assert isinstance(spec.unit, str)
+        assert spec.description.strip()
+        lo, hi = spec.bounds
+        assert math.isfinite(lo) and math.isfinite(hi) and lo < hi
+        assert not spec.log or lo > 0, "a log-scaled parameter needs a positive lower bound"
+
+
+def test_colours_are_distinct():
+    colours = [MECHANISMS[k].colour.lower() for k in KINDS]
+    assert len(set(colours)) == len(colours)
+
+
+@pytest.mark.parametrize("kind, i, mech", EXAMPLES, ids=IDS)
+def test_parameters_carry_metadata(kind, i, mech):
+    for pname, par in mech.parameters.items():
+        assert par.name == pname and par.value == mech.values[pname]
+        assert par.label.startswith(par.description)
+        assert (f"[{par.unit}]" in par.label) == bool(par.unit)
+        lo, hi = par.bounds
+        assert lo <= par.value <= hi, f"{kind}.{pname}: the example value must lie inside the bounds"
+        assert par.rate_power is None or isinstance(par.rate_power, float)
+
+
+# ------------------------------------------------------------------ rates
+@pytest.mark.parametrize("kind, i, mech", EXAMPLES, ids=IDS)
+def test_rates_finite_and_non_negative_over_the_parameter_box(kind, i, mech):
+    n = 0
+    for pt in _points(mech):
+        m = mech.with_values(**pt)
+        for b in BRANCHES:
+            if b.dispersion == "sine":
+                w = np.geomspace(1e6, b.omega_max, 40)[None, :]
+            else:
+                w = np.minimum(OMEGA, b.omega_max)
+            with np.errstate(over="raise", invalid="raise", divide="raise", under="ignore"):  # quiet underflow only
+                r = np.broadcast_to(m.rate(w, TEMPS, b), (TEMPS.size, w.size))
+            assert np.all(np.isfinite(r)) and np.all(r >= 0), (kind, pt, b.name)
+        n += 1
+    assert n >= 2 ** len(mech.values)
+
+
+@pytest.mark.parametrize("kind, i, mech", EXAMPLES, ids=IDS)
+def test_rate_broadcasts_over_temperature_and_frequency(kind, i, mech):
+    b = BRANCHES[0]
+    w = np.array([1e11, 1e12, 1e13])
+    T = np.array([[10.0], [300.0]])
+    grid = np.broadcast_to(mech.rate(w[None, :], T, b), (2, 3))
+    for a in range(2):
+        for c in range(3):
+            # element by element with scalars: the same number (to round-off of the vectorised powers)
+            assert float(np.asarray(mech.rate(w[c], T[a, 0], b))) == pytest.approx(grid[a, c], rel=1e-14)
+    # a 1-D frequency array against a scalar temperature keeps the frequency shape (or broadcasts to it)
+    assert np.broadcast_to(mech.rate(w, 300.0, b), w.shape).shape == (3,)
+
+
+# ------------------------------------------------------------------ round trips
+@pytest.mark.parametrize("kind, i, mech", EXAMPLES, ids=IDS)
+def test_dict_and_with_params_round_trips(kind, i, mech):
+    assert mechanism_from_dict(mech.to_dict()) == mech
+    renamed = mechanism_from_dict({**mech.to_dict(), "name": "extra"})
+    assert renamed.name == "extra" and renamed.values == mech.values
+    model = LatticeModel(BRANCHES[:2], [Boundary(1e-3, name="wall"), mech])
+    again = LatticeModel.from_dict(model.to_dict())
+    assert again == model
+    # with_params: move every parameter to a random point of its box and back
+    pt = next(itertools.islice(_points(mech, seed=1), 2 ** len(mech.values), None))
+    moved = model.with_params({f"{mech.name}.{p}": v for p, v in pt.items()})
+    assert moved.mechanism(mech.name).values == pytest.approx(pt)
+    back = moved.with_params({f"{mech.name}.{p}": v for p, v in mech.values.items()})
+    assert back == model
+    assert float(back.kappa(77.0)) == float(model.kappa(77.0))
+
+
+# ------------------------------------------------------------------ physics
+BASE = LatticeModel(BRANCHES[:2], [Boundary(1e-4), PointDefect(A=1.3e-45), Umklapp(B=2e-19)])
+
+
+@pytest.mark.parametrize("kind, i, mech", EXAMPLES, ids=IDS)
+def test_adding_a_mechanism_never_raises_kappa(kind, i, mech):
+    # Matthiessen: a resistive rate only shortens tau. A Normal (non-resistive) term added to a
+    # model without one: Callaway's kappa <= <1/tau_R> by Cauchy-Schwarz (<tau_c N>^2 <= <tau_c N R>
+    # <tau_c N / R>), so it cannot rise either.
+    T = np.array([1.0, 20.0, 300.0, 1500.0])
+    k0 = BASE.kappa(T)
+    for pt in itertools.islice(_points(mech, n_random=6, seed=2), 2 ** len(mech.values), None):
+        extra = mechanism_from_dict({**mech.with_values(**pt).to_dict(), "name": "extra"})
+        k1 = BASE.with_mechanism(extra).kappa(T)
+        assert np.all(np.isfinite(k1)) and np.all(k1 > 0)
+        assert np.all(k1 <= k0 * (1 + 1e-9)), (kind, pt)  # 1e-9: round-off between two evaluations
+
+
+# ------------------------------------------------------------------ broken mechanisms
+def _broken(kind_name, value):
+    @dataclass(frozen=True)
+    class Broken(Mechanism):
+        C: float = 1.0
+        name: str = kind_name
+        applies_to: tuple | None = None
+
+        kind: ClassVar[str] = kind_name
+        label: ClassVar[str] = "Deliberately broken (test)"
+        colour: ClassVar[str] = "#000000"
+        _spec: ClassVar[dict] = {"C": _Spec("", "strength C", (0.1, 10.0))}
+
+        def rate(self, omega, T, branch):
+            omega = np.asarray(omega, dtype=float)
+            r = self.C * omega * 1e-3
+            return np.where(omega > 1e12, value, r)
+
+    return Broken
+
+
+@pytest.mark.parametrize("value, word", [(np.nan, "NaN"), (-1.0, "negative"), (np.inf, "infinite")])
+def test_broken_mechanism_is_refused_with_its_name(value, word):
+    cls = register(_broken("broken_rate", value))
+    try:
+        m = BASE.with_mechanism(cls())
+        with pytest.raises(ModelError, match=rf"mechanism 'broken_rate' \(Broken\) returned an? {word} scattering rate"):
+            m.kappa([10.0, 300.0])
+        with pytest.raises(ModelError, match="broken_rate"):
+            m.kappa_jacobian([300.0], ["umklapp.B"])
+        # a ModelError is a ValueError too, for callers that catch those
+        assert issubclass(ModelError, ValueError)
+    finally:
+        del MECHANISMS["broken_rate"]
+    assert "broken_rate" not in MECHANISMS
+
+
+def test_registration_refuses_incomplete_classes():
+    bad = _broken("no_label_kind", 1.0)
+    bad.label = ""
+    with pytest.raises(ParameterError, match="plain-words label"):
+        register(bad)
+    bad.label = "x"
+    bad.colour = "blue"
+    with pytest.raises(ParameterError, match="hex colour"):
+        register(bad)
+    with pytest.raises(ParameterError, match="already registered"):
+        clone = _broken("boundary", 1.0)
+        register(clone)
+    assert "no_label_kind" not in MECHANISMS and MECHANISMS["boundary"] is Boundary
+
+
+def test_registry_order_is_the_order_users_see():
+    # the workbench's "add mechanism" list and the CLI follow MECHANISMS' order: the common ones first
+    assert list(MECHANISMS)[:7] == ["boundary", "point_defect", "umklapp", "normal", "electron_phonon",
+                                    "dislocation", "precipitate"]
