@@ -18,7 +18,7 @@ True
 from importlib import import_module as _import_module
 
 from ._version import __version__
-from .errors import DataError, FitError, KineticError, ParameterError, RecordError
+from .errors import DataError, FitError, KineticError, ModelError, ParameterError, RecordError
 
 #: Public name -> submodule that defines it (the curated face, in ``__all__``).
 _PUBLIC = {
@@ -55,11 +55,11 @@ _COMPAT = {
 }
 
 #: Public submodules, loaded on first attribute access (``kinetic.materials`` ...).
-_SUBMODULES = {"materials", "defaults", "disorder", "estimates", "electronic", "conductivity", "data",
+_SUBMODULES = {"materials", "defaults", "alloy", "grid", "spectrum", "zt_sweep", "disorder", "estimates", "electronic", "conductivity", "data",
                "porosity", "heat_capacity", "demo", "fitting", "records", "whatif", "report", "batch",
                "lattice", "scattering", "dispersion", "quantities", "checks", "presets"}
 
-__all__ = ["__version__", "KineticError", "ParameterError", "DataError", "RecordError", "FitError",
+__all__ = ["__version__", "KineticError", "ParameterError", "ModelError", "DataError", "RecordError", "FitError",
            *_PUBLIC, "materials", "defaults", "electronic", "disorder", "estimates", "demo"]
 
 

@@ -455,9 +455,9 @@ def alloy_sweep(host_a, host_b, fractions, temperature, *, template: LatticeMode
 class RowBoundary(Mechanism):
     """Boundary scattering with one length per row (for vectorised maps).
 
-    ``rate`` returns v_g / L_i on row i, broadcast against the frequency nodes:
-    :func:`grain_alloy_map` evaluates the engine's integrals at one temperature
-    with these rows. Internal; it has no fit parameters and is not saved in records.
+    ``rate`` returns v_g / L_i on temperature row i, broadcast against the
+    frequency nodes: :func:`grain_alloy_map` evaluates the engine at one
+    temperature repeated once per length, so row i is length i. Internal; it has no fit parameters and is not saved in records.
     """
 
     lengths: tuple = (1e-6,)
@@ -465,6 +465,9 @@ class RowBoundary(Mechanism):
     applies_to: tuple | None = None
 
     kind: ClassVar[str] = "boundary_rows"
+    label: ClassVar[str] = "Boundary (one length per temperature row)"
+    colour: ClassVar[str] = "#1f77b4"
+    limits_mean_free_path: ClassVar[bool] = True
     _spec: ClassVar[dict] = {}
 
     def rate(self, omega, T, branch):
@@ -519,20 +522,15 @@ def _map_inputs(lengths, fractions, temperature):
 LENGTHS_PER_CALL = 1024
 
 
-def _kappa_over_lengths(model: LatticeModel, T0: float) -> np.ndarray:
-    """kappa [W/m/K] at one temperature for each length of the model's RowBoundary.
+def _kappa_over_lengths(model: LatticeModel, T0: float, n: int) -> np.ndarray:
+    """kappa [W/m/K] at one temperature for each of the ``n`` lengths of the model's RowBoundary.
 
-    The engine's Callaway integrals are evaluated once at ``T0``: quadrature nodes, Planck
-    weights and every other rate come in one row, the RowBoundary rate v_g / L_i in one row
-    per length, and the integrals broadcast over the lengths (the same arithmetic as
-    ``model.kappa`` on a model with a single boundary length; tests/test_alloys.py compares).
+    The engine vectorises over its temperature rows; here every row is the same temperature
+    ``T0`` and row i carries the RowBoundary rate v_g / L_i, so one engine call gives kappa at
+    each length (the same arithmetic as ``model.kappa`` on a model with a single boundary
+    length; tests/test_alloys.py compares).
     """
-    T1 = np.array([float(T0)])
-    total = 0.0
-    for br in model.branches:
-        I1, I2, I3, _ = model._branch_integrals(br, T1)
-        total = total + I1 + np.divide(I2 * I2, I3, out=np.zeros_like(I1), where=I3 > 0)
-    return total
+    return model.kappa(np.full(n, float(T0)))
 
 
 def iter_grain_alloy_map(model: LatticeModel | None, lengths, fractions, temperature: float, *, host_a, host_b,
@@ -572,7 +570,7 @@ def iter_grain_alloy_map(model: LatticeModel | None, lengths, fractions, tempera
                 raise ParameterError(f"the default models have no boundary mechanism named {mechanism!r}")
             base = m.without(mechanism)
             for sl, rm in zip(blocks, row_mechs):
-                out[i, sl] = _kappa_over_lengths(base.with_mechanism(rm), T0)
+                out[i, sl] = _kappa_over_lengths(base.with_mechanism(rm), T0, sl.stop - sl.start)
             gam[i] = g + extra_gamma
         yield start, out, gam
 
