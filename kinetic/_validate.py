@@ -41,6 +41,7 @@ import numbers
 import numpy as np
 
 from .errors import ParameterError
+from .quantities import is_quantity, to_si
 
 __all__ = [
     "as_float_array",
@@ -68,20 +69,10 @@ def _unit_tag(unit: str) -> str:
     return f" [{unit.strip()}]" if unit and unit.strip() else ""
 
 
-def is_quantity(value) -> bool:
-    """True for a pint quantity (duck-typed: ``.to``, ``.magnitude``, ``.units``)."""
-    return all(hasattr(value, a) for a in ("to", "magnitude", "units"))
-
-
 def _from_quantity(name: str, value, unit: str):
-    """The magnitude of a quantity in ``unit`` (dimensionless when ``unit`` is empty)."""
-    target = unit.strip() if unit else ""
-    try:
-        converted = value.to(target) if target else value.to("dimensionless")
-    except Exception as exc:  # noqa: BLE001 - pint's DimensionalityError or an unparseable unit label
-        want = f"a quantity convertible to {target}" if target else "a plain number (no unit)"
-        raise ParameterError(f"{name} must be {want}, got {value!r} ({type(exc).__name__})") from None
-    return converted.magnitude
+    """The magnitude of a quantity in ``unit`` (one converter for the whole package:
+    :func:`kinetic.quantities.to_si`, whose errors name the dimension expected and given)."""
+    return to_si(value, unit.strip() if unit else "", name)
 
 
 def as_float_array(name: str, value, *, unit: str = "") -> np.ndarray:
