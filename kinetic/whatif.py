@@ -474,7 +474,10 @@ class RowBoundary(Mechanism):
         omega = np.asarray(omega, dtype=float)
         T = np.asarray(T, dtype=float)
         L = np.asarray(self.lengths, dtype=float).reshape(-1, 1)
-        v = branch.group_velocity(omega)
+        if omega.ndim == 2 and omega.shape[0] > 1 and T.size > 1 and np.all(T == T.flat[0]):
+            v = branch.group_velocity(omega[:1])  # one temperature repeated: the node rows are equal
+        else:
+            v = branch.group_velocity(omega)
         r = v / L
         return np.broadcast_to(r, np.broadcast_shapes(np.shape(r), omega.shape, T.shape))
 
