@@ -12,10 +12,10 @@ from ._fields import (  # noqa: F401
     model_field,
 )
 
-_N_HOW = ("Callaway normal-process prefactor B_N = 1e-25 s K^-3 (omega^2 T^3) fixed for Si and Ge "
-          "presets: the fit of kappa(T) alone does not determine it (it drifts to zero); the value is the one "
-          "of a coarse scan (5e-26 ... 3e-24) that puts enriched/natural Si at 300 K inside Inyushkin et al. "
-          "2004's +10 +- 2 % while keeping the rms of the kappa(T) fits below 8 %")
+_N_HOW = ("Callaway normal-process prefactor B_N = 1e-25 s K^-3 (omega^2 T^3) fixed: the fit of kappa(T) "
+          "alone does not determine it (it drifts to zero); the value is the one the first calibration pass "
+          "took for Si and Ge from a coarse scan (5e-26 ... 3e-24) with Inyushkin et al. 2004's 28Si effect "
+          "in view; the Si preset has since been recalibrated (see its model), Ge keeps it")
 _N_HOW_SI = ("normal processes 1/tau_N = B_N omega^2 T^2, B_N = 1.6e-23 s K^-2 fixed: k(T) alone does not "
              "determine B_N (the best fit has none); reference/calibrate_group_iv.py scans Callaway's omega^2 T^3 "
              "(Phys. Rev. 113, 1046, 1959) and omega^2 T^2 (an empirical middle between the low-T T^3 and the "
