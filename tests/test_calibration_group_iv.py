@@ -45,9 +45,10 @@ def test_default_model_reproduces_its_table_within_the_stored_rms(name):
     rms = float(np.sqrt(np.mean(rel**2)))
     # the stored rms is the fit's own; 1e-3 absolute slack for rounding of the stored coefficients
     assert rms <= cal.rms + 1e-3
-    # and no fit is worse than the table's scatter allows: G&S state +-5 % per point, our fit's rms
-    # is 7.5 % with the largest residual 12 % (at 50 K, where sample size matters); 15 % bounds it
-    assert np.max(np.abs(rel)) < 0.15
+    # no point strays far beyond the table's scatter: G&S state +-5 % per point; the Si fit's rms is
+    # 5.0 % with the largest residual 9.4 % (+9 % at 175 K, -8 % at 90-100 K: the shape of this
+    # model's Umklapp freeze-out, see reference/README.md); 10 % bounds it (2 sigma of the stated +-5 %)
+    assert np.max(np.abs(rel)) < 0.10
 
 
 @pytest.mark.parametrize("name", GROUP_IV)
@@ -73,10 +74,25 @@ def test_umklapp_uses_the_calibrated_gamma_never_the_thermodynamic_one(name):
     stored = PRESETS[name]["model"]["value"]["mechanisms"]["umklapp"]["gruneisen"]
     assert g == stored
     gth = PRESETS[name]["gruneisen"]["value"]
-    assert abs(g - gth) > 0.2  # calibrated 1.09-1.29 against gamma_th 0.46-0.73
+    assert abs(g - gth) > 0.2  # calibrated 1.29-2.09 against gamma_th 0.46-0.73
     mat = materials.get(name)
     assert mat.gruneisen == stored and mat.gruneisen_thermodynamic == gth
     assert mat.calibration["table"] == defaults.calibration(name).table
+
+
+def test_silicon_rms_within_the_tables_stated_scatter():
+    # Glassbrenner & Slack (1964) state +-5 % per point; the stored fit (reference/calibrate_group_iv.py)
+    # has rms 5.0 %, so the stored figure itself must stay at the stated scatter (0.1 % for rounding)
+    assert defaults.calibration("Si").rms <= 0.051
+
+
+def test_diamond_maximum_near_63_K():
+    # Inyushkin et al., PRB 97, 144305 (2018), abstract (checked): "At conductivity maximum near 63 K".
+    # The calibration imposes dk/dT = 0 at 63 K; on a 0.5 K grid the maximum must lie within 2 K
+    # (the abstract's "near" and the grid step).
+    T = np.linspace(30.0, 120.0, 181)
+    k = defaults.default_model("C").kappa(T)
+    assert abs(T[int(np.argmax(k))] - 63.0) <= 2.0
 
 
 def test_calibration_record_fields():

@@ -168,12 +168,14 @@ def test_silicon_default_model_reproduces_its_calibration_table():
     # The Si preset's default model (split sine branches, boundary + isotopes + Umklapp + normal)
     # was calibrated on Glassbrenner & Slack (1964), Phys. Rev. 134, A1058, 50-1000 K; the preset
     # stores the rms deviation of that fit. The model must reproduce the table within the stored
-    # rms (1 % slack for rounding of the stored figure), and 300 K within 10 % of the table (issue
-    # requirement for every preset).
+    # rms (1 % slack for rounding of the stored figure), no point beyond 10 % (2x the table's stated
+    # +-5 %; the fit's largest deviation is 9.4 %), and 300 K within the table's +-5 % (model 157.3
+    # against 156).
     from kinetic.defaults import calibration, default_model
     m, cal = default_model("Si"), calibration("Si")
     T, k = _reference_rows("Si", "Glassbrenner")
     sel = (T >= cal.t_min) & (T <= cal.t_max)
     rel = m.kappa(T[sel]) / k[sel] - 1.0
     assert np.sqrt(np.mean(rel**2)) <= cal.rms * 1.01
-    assert abs(float(m.kappa(300.0)) / float(np.interp(300.0, T, k)) - 1.0) < 0.10
+    assert np.max(np.abs(rel)) < 0.10
+    assert abs(float(m.kappa(300.0)) / float(np.interp(300.0, T, k)) - 1.0) < 0.05
