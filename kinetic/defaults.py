@@ -35,7 +35,7 @@ from scipy.constants import atomic_mass as _U
 from . import materials
 from .errors import ParameterError
 from .lattice import LatticeModel
-from .presets import PRESETS
+from .presets import PRESETS, TABLE_STATUS
 from .scattering import Boundary, Normal, PointDefect, Umklapp
 
 __all__ = [
@@ -81,6 +81,9 @@ class Calibration:
         How the calibration was made.
     model : dict
         The stored model description (schema of :mod:`kinetic.presets._fields`).
+    table_status : str
+        How sure the reference table is: "checked", "checked (two points)",
+        "partly from memory" or "from memory" (:data:`kinetic.presets.TABLE_STATUS`).
     """
 
     material: str
@@ -93,6 +96,7 @@ class Calibration:
     sample: str
     how: str = ""
     model: dict = field(default_factory=dict)
+    table_status: str = "checked"
 
 
 def _preset(material):
@@ -136,7 +140,8 @@ def calibration(material) -> Calibration | None:
     v = cal["value"]
     return Calibration(material=key, source=cal.get("source", ""), table=v["table"], t_min=float(v["t_min"]),
                        t_max=float(v["t_max"]), rms=float(v["rms"]), n_points=int(v["n_points"]),
-                       sample=v.get("sample", ""), how=cal.get("how", ""), model=dict(model))
+                       sample=v.get("sample", ""), how=cal.get("how", ""), model=dict(model),
+                       table_status=TABLE_STATUS.get(key, "from memory"))
 
 
 def _mechanism(kind: str, params: Mapping, mat) -> object:
@@ -305,6 +310,9 @@ def scope_notes(material_or_name, *, temperature=None, boundary_length=None,
     notes = []
     if cal is None:
         notes.append(f"{name} has no calibration against measured k(T): the prediction is uncalibrated")
+    elif "memory" in cal.table_status:
+        notes.append(f"{name}: the reference k(T) this preset was calibrated on is {cal.table_status} "
+                     "(not read from the published table): treat the prediction as a rough estimate")
     if temperature is not None:
         T = np.atleast_1d(np.asarray(temperature, dtype=float))
         if cal is not None and T.size and (T.min() < cal.t_min or T.max() > cal.t_max):

@@ -166,7 +166,7 @@ def test_preset_calibration_rule():
     model = {"value": {"branches": "avg"}}
     assert preset_calibration({"calibration": cal, "model": model}) == {
         "source": "A. Author, J. (2000)", "table": "reference/x.csv", "t_min": 100.0, "t_max": 800.0,
-        "rms": 0.05, "n_points": 12, "sample": "bulk crystal"}
+        "rms": 0.05, "n_points": 12, "sample": "bulk crystal", "table_status": "from memory"}
     assert preset_calibration({"calibration": cal}) is None                 # no calibrated model
     assert preset_calibration({"model": model}) is None                     # no calibration record
     assert preset_calibration({"calibration": {"value": None}, "model": model}) is None
@@ -184,8 +184,8 @@ def test_materials_agrees_with_the_defaults_module():
         assert (ref is None) == (r["calibration"] is None), r["name"]
         if ref is not None:
             c = r["calibration"]
-            assert (c["source"], c["t_min"], c["t_max"], c["rms"], c["n_points"], c["sample"]) == \
-                   (ref.source, ref.t_min, ref.t_max, ref.rms, ref.n_points, ref.sample)
+            assert (c["source"], c["t_min"], c["t_max"], c["rms"], c["n_points"], c["sample"], c["table_status"]) == \
+                   (ref.source, ref.t_min, ref.t_max, ref.rms, ref.n_points, ref.sample, ref.table_status)
 
 
 HEAVY = ("numpy", "scipy", "pint", "matplotlib", "kinetic.fitting", "kinetic.lattice", "kinetic.data")

@@ -29,7 +29,7 @@ def _value(preset, field):
     return e.get("value") if isinstance(e, dict) else None
 
 
-def preset_calibration(preset) -> dict | None:
+def preset_calibration(preset, name=None) -> dict | None:
     """The calibration of one preset table as a dict, or None when it has no calibrated model.
 
     Keys: source, table, t_min [K], t_max [K], rms (relative, a fraction),
@@ -43,7 +43,13 @@ def preset_calibration(preset) -> dict | None:
     v = cal["value"]
     return {"source": cal.get("source", ""), "table": v.get("table"), "t_min": float(v["t_min"]),
             "t_max": float(v["t_max"]), "rms": float(v["rms"]), "n_points": int(v["n_points"]),
-            "sample": v.get("sample", "")}
+            "sample": v.get("sample", ""), "table_status": _table_status(name)}
+
+
+def _table_status(name) -> str:
+    from ..presets import TABLE_STATUS
+
+    return TABLE_STATUS.get(name, "from memory")
 
 
 def material_rows() -> list:
@@ -52,7 +58,7 @@ def material_rows() -> list:
 
     rows = []
     for name, p in PRESETS.items():
-        cal = preset_calibration(p)
+        cal = preset_calibration(p, name)
         vl, vt = _value(p, "velocity_longitudinal"), _value(p, "velocity_transverse")
         rows.append({"name": name, "formula": _value(p, "formula") or name,
                      "debye_temperature": _value(p, "debye_temperature"),
@@ -67,22 +73,27 @@ def run_materials(args) -> int:
     if args.json:
         print(dump(rows))
         return 0
-    print(f"{'name':<8} {'theta_D [K]':>11} {'calibrated':<10} {'range [K]':<12} {'rms':>6} {'points':>6}  source")
+    print(f"{'name':<8} {'theta_D [K]':>11} {'calibrated':<10} {'range [K]':<12} {'rms':>6} {'points':>6}  "
+          f"{'table':<20} source")
     for r in rows:
         th = "-" if r["debye_temperature"] is None else f"{r['debye_temperature']:.4g}"
         c = r["calibration"]
         if c is None:
-            print(f"{r['name']:<8} {th:>11} {'no':<10} {'-':<12} {'-':>6} {'-':>6}  -")
+            print(f"{r['name']:<8} {th:>11} {'no':<10} {'-':<12} {'-':>6} {'-':>6}  {'-':<20} -")
             continue
         span = f"{c.get('t_min', float('nan')):g}-{c.get('t_max', float('nan')):g}"
         rms = c.get("rms")
         rms_s = "-" if rms is None else f"{100 * rms:.1f}%"
         n = c.get("n_points")
         print(f"{r['name']:<8} {th:>11} {'yes':<10} {span:<12} {rms_s:>6} {'-' if n is None else n:>6}  "
-              f"{c.get('source', '')}")
+              f"{c.get('table_status', ''):<20} {c.get('source', '')}")
     n_cal = sum(r["calibrated"] for r in rows)
+    n_mem = sum(1 for r in rows if r["calibration"] and "memory" in r["calibration"]["table_status"])
     print(f"{n_cal} of {len(rows)} presets calibrated on a published k(T) table "
           "(rms: relative rms deviation of the default model from that table).")
+    if n_mem:
+        print(f"{n_mem} of these tables are wholly or partly from memory (not read from the published "
+              "table): their predictions are rough estimates until someone checks the original.")
     return 0
 
 

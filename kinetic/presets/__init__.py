@@ -68,3 +68,14 @@ ALIASES: dict[str, str] = {"diamond": "C", "c": "C", "si": "Si", "ge": "Ge",
                            "mg2si": "Mg2Si", "aln": "AlN", "sic": "SiC", "6h-sic": "SiC",
                            "insb": "InSb", "mg2sn": "Mg2Sn", "cosb3": "CoSb3"}
 
+#: How sure each preset's calibration table is, read from the ``how`` column of its rows in
+#: reference/ inside the calibrated range: "checked" (every row printed in a named source, or
+#: computed from a checked law), "partly from memory" (some rows checked, others recalled),
+#: "from memory" (the table was recalled, not read: the calibration shows the model can
+#: follow such a curve, not that the curve is right).
+TABLE_STATUS: dict[str, str] = {
+    "Si": "checked", "Ge": "partly from memory", "C": "checked (two points)", "GaAs": "checked",
+    "PbTe": "from memory", "Bi2Te3": "partly from memory", "Mg2Si": "from memory",
+    "AlN": "partly from memory", "SiC": "checked", "InSb": "from memory", "Mg2Sn": "from memory",
+    "CoSb3": "from memory",
+}
