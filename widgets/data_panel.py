@@ -13,8 +13,8 @@ from typing import Callable
 
 import ipywidgets as ipw
 
-from kinetic.errors import DataError, KineticError
-
+from . import _engine
+from ._engine import DataError, KineticError
 from .style import css, fmt
 
 __all__ = ["DataPanel", "demo_choices", "describe_dataset"]
@@ -27,10 +27,7 @@ def demo_choices() -> dict:
 
     Taken from :mod:`kinetic.demo` (invented, synthetic data).
     """
-    try:
-        from kinetic import demo
-    except ImportError:
-        return {}
+    demo = _engine.demo
     out = {}
     if hasattr(demo, "demo_dataset"):
         out["demo sample (invented data)"] = demo.demo_dataset
@@ -120,10 +117,8 @@ class DataPanel(ipw.VBox):
         Returns the Dataset, or None when the loader refused it (the message is
         shown and the previous data are kept).
         """
-        from kinetic.data import parse_data
-
         try:
-            ds = parse_data(bytes(content), name=name, **self.loader_options)
+            ds = _engine.parse_data(bytes(content), name=name, **self.loader_options)
         except KineticError as exc:
             self._refused(exc, bytes(content))
             return None

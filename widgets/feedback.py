@@ -15,8 +15,7 @@ import traceback
 
 import ipywidgets as ipw
 
-from kinetic.errors import KineticError
-
+from ._engine import KineticError
 from .style import css
 
 __all__ = ["MessageBoard", "plain_message"]
