@@ -21,6 +21,7 @@ import os
 import re
 import tempfile
 from dataclasses import dataclass, field
+from typing import NamedTuple
 
 import numpy as np
 
@@ -233,17 +234,22 @@ def bipolar_parameters() -> dict:
     return _bipolar_fallback()
 
 
-def electronic_split(data, lorenz_method: str):
-    """The measured data with the electronic part split off, or None.
+class Split(NamedTuple):
+    """Measured data with the electronic part split off (at the points where it stays positive)."""
+    temperature: np.ndarray     #: [K]
+    kappa_electronic: np.ndarray  #: [W m^-1 K^-1]
+    kappa: np.ndarray           #: measured lattice part [W m^-1 K^-1]
+    kept: np.ndarray            #: mask of the measured points used
 
-    Returns ``(T, kappa_electronic, kappa_lattice_measured, kept)``.
-    """
+
+def electronic_split(data, lorenz_method: str):
+    """The measured data with the electronic part split off (:class:`Split`), or None."""
     if data is None or data.kind != "total" or data.resistivity is None:
         return None
     from kinetic.fitting import lattice_target  # FALLBACK (delete at merge): ElectronicTerm of the chain
 
     t = lattice_target(data, lorenz_method)
-    return t.temperature, np.asarray(t.kappa_electronic, float), np.asarray(t.kappa, float), t.kept
+    return Split(t.temperature, np.asarray(t.kappa_electronic, float), np.asarray(t.kappa, float), t.kept)
 
 
 def conductivity_parts(model, temperature, *, bipolar: dict | None = None) -> Parts:

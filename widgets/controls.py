@@ -103,7 +103,7 @@ class ParameterControl(ipw.VBox):
         self.add_class(css("parameter"))
         self.slider.observe(self._from_slider, names="value")
         self.box.observe(self._from_box, names="value")
-        self.slider.description_tooltip = key
+        self.slider.tooltip = key
         super().__init__([self.label, ipw.HBox([self.slider, self.box, self.unit])],
                          layout=ipw.Layout(margin="0"))
 

@@ -308,8 +308,15 @@ class Workbench(ipw.VBox):
         if self._muted:
             return
         with self._lock:
-            self.state.set_electronic(self.electronic_on.value, self.lorenz_choice.value)
-            self.refresh()
+            try:
+                self.state.set_electronic(self.electronic_on.value, self.lorenz_choice.value)
+                self.refresh()
+            except Exception:
+                with self.muted():  # back to the choice that worked
+                    change["owner"].value = change["old"]
+                self.state.set_electronic(self.electronic_on.value, self.lorenz_choice.value)
+                self.refresh()
+                raise
 
     def _set_data(self, ds) -> None:
         with self._lock:
