@@ -21,21 +21,18 @@ import matplotlib
 
 matplotlib.use("module://ipympl.backend_nbagg")
 
+import ipywidgets as ipw
 import numpy as np
 import pytest
-import ipywidgets as ipw
 
-from kinetic import demo, materials
+from kinetic import demo, materials, whatif
 from kinetic.fitting import fit
 from kinetic.lattice import LatticeModel
 from kinetic.records import load_record
 from kinetic.scattering import Boundary, Umklapp
-from kinetic import whatif
-
 from widgets import MECHANISM_COLOURS, Workbench, default_model
-from widgets.figures import decade_label, decade_limits, nice_ceil, step_limits
+from widgets.figures import _slug, decade_label, decade_limits, nice_ceil, step_limits
 from widgets.style import fmt, unit_text
-from widgets.figures import _slug
 
 pytestmark = pytest.mark.filterwarnings(
     "ignore:Passing unrecognized arguments to super\\(Toolbar\\):DeprecationWarning")

@@ -10,4 +10,4 @@ ipywidgets as ``ipw``: this package is itself named ``widgets``.
 from .style import MECHANISM_COLOURS, mechanism_colour
 from .workbench import Workbench, default_model
 
-__all__ = ["Workbench", "default_model", "MECHANISM_COLOURS", "mechanism_colour"]
+__all__ = ["MECHANISM_COLOURS", "Workbench", "default_model", "mechanism_colour"]

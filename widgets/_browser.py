@@ -15,7 +15,7 @@ import ipywidgets as ipw
 
 from .style import css
 
-__all__ = ["keyboard_helper", "TAB_SCRIPT"]
+__all__ = ["TAB_SCRIPT", "keyboard_helper"]
 
 TAB_SCRIPT = """
 (function () {

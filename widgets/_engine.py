@@ -26,10 +26,26 @@ from typing import NamedTuple
 import numpy as np
 
 import kinetic
-from kinetic import materials, whatif, demo
-from kinetic import FitError, KineticError, ParameterError, DataError, RecordError  # noqa: F401
-from kinetic import LatticeModel, Parameter, FitResult, Record  # noqa: F401
-from kinetic import fit as _fit, predict_band, save_record, load_record, parse_data, Dataset  # noqa: F401
+from kinetic import (
+    DataError,
+    Dataset,
+    FitError,
+    FitResult,
+    KineticError,
+    LatticeModel,
+    Parameter,
+    ParameterError,
+    Record,
+    RecordError,
+    demo,
+    load_record,
+    materials,
+    parse_data,
+    predict_band,
+    save_record,
+    whatif,
+)
+from kinetic import fit as _fit
 from kinetic.scattering import MECHANISMS
 
 try:  # the restructured engine (issue 8): one default model per material
@@ -46,13 +62,47 @@ except ImportError:  # FALLBACK (delete at merge)
     _atomic_write = None
 
 __all__ = [
-    "materials", "whatif", "demo", "MECHANISMS", "LatticeModel", "Parameter", "FitResult", "Record",
-    "KineticError", "ParameterError", "FitError", "DataError", "RecordError",
-    "material_names", "get_material", "material_of", "default_model", "default_free", "calibration",
-    "scope_notes", "missing_number", "with_number", "new_mechanism", "Parts", "conductivity_parts",
-    "bipolar_parameters", "cahill_minimum", "fit", "report_rows", "predict_band", "correlation_limit",
-    "atomic_write", "mechanism_label", "mechanism_colour", "parameter_words", "unit_text",
-    "save_record", "load_record", "parse_data", "Dataset", "FALLBACKS",
+    "FALLBACKS",
+    "MECHANISMS",
+    "DataError",
+    "Dataset",
+    "FitError",
+    "FitResult",
+    "KineticError",
+    "LatticeModel",
+    "Parameter",
+    "ParameterError",
+    "Parts",
+    "Record",
+    "RecordError",
+    "atomic_write",
+    "bipolar_parameters",
+    "cahill_minimum",
+    "calibration",
+    "conductivity_parts",
+    "correlation_limit",
+    "default_free",
+    "default_model",
+    "demo",
+    "fit",
+    "get_material",
+    "load_record",
+    "material_names",
+    "material_of",
+    "materials",
+    "mechanism_colour",
+    "mechanism_label",
+    "missing_number",
+    "new_mechanism",
+    "parameter_words",
+    "parse_data",
+    "predict_band",
+    "report_rows",
+    "save_record",
+    "scope_notes",
+    "unit_text",
+    "whatif",
+    "with_number",
 ]
 
 #: the fallbacks in use in this tree (empty once the engine has every name)
@@ -246,7 +296,9 @@ def electronic_split(data, lorenz_method: str):
     """The measured data with the electronic part split off (:class:`Split`), or None."""
     if data is None or data.kind != "total" or data.resistivity is None:
         return None
-    from kinetic.fitting import lattice_target  # FALLBACK (delete at merge): ElectronicTerm of the chain
+    from kinetic.fitting import (
+        lattice_target,  # FALLBACK (delete at merge): ElectronicTerm of the chain
+    )
 
     t = lattice_target(data, lorenz_method)
     return Split(t.temperature, np.asarray(t.kappa_electronic, float), np.asarray(t.kappa, float), t.kept)

@@ -10,14 +10,22 @@ its controls without any change here.
 from __future__ import annotations
 
 import math
-from typing import Callable
+from collections.abc import Callable
 
 import ipywidgets as ipw
 
 from ._engine import Parameter, ParameterError, parameter_words
-from .style import css, esc, fmt, label_html, mechanism_colour, mechanism_title, unit_text
+from .style import (
+    css,
+    esc,
+    fmt,
+    label_html,
+    mechanism_colour,
+    mechanism_title,
+    unit_text,
+)
 
-__all__ = ["ParameterControl", "MechanismCard", "slider_range"]
+__all__ = ["MechanismCard", "ParameterControl", "slider_range"]
 
 #: steps across a slider's range; one arrow-key press moves one step.
 SLIDER_STEPS = 200

@@ -9,7 +9,7 @@ the panel together with the text of the line it refers to.
 from __future__ import annotations
 
 import re
-from typing import Callable
+from collections.abc import Callable
 
 import ipywidgets as ipw
 

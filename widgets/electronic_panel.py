@@ -6,7 +6,7 @@ holds the choices.
 """
 from __future__ import annotations
 
-from typing import Callable
+from collections.abc import Callable
 
 import ipywidgets as ipw
 
@@ -14,7 +14,7 @@ from . import _engine
 from .controls import ParameterControl
 from .style import css
 
-__all__ = ["ElectronicPanel", "LORENZ_METHODS"]
+__all__ = ["LORENZ_METHODS", "ElectronicPanel"]
 
 #: Lorenz-number choices: plain words, the engine's key in the tooltip of the dropdown
 LORENZ_METHODS = (

@@ -21,19 +21,32 @@ import io
 import os
 import re
 
-import numpy as np
 import ipywidgets as ipw
 import matplotlib.pyplot as plt
-from matplotlib.colors import to_hex
+import numpy as np
 from matplotlib import ticker
+from matplotlib.colors import to_hex
 from matplotlib.figure import Figure
 
 from . import _engine
 from .style import css
 
-__all__ = ["new_figure", "save_figure", "Plot", "EXPORT_FORMATS", "curves_csv", "decade_label",
-           "decade_limits", "step_limits", "nice_ceil", "light_log_axis", "positive_or_nan", "set_band",
-           "W_UNIT", "PER_S"]
+__all__ = [
+    "EXPORT_FORMATS",
+    "PER_S",
+    "W_UNIT",
+    "Plot",
+    "curves_csv",
+    "decade_label",
+    "decade_limits",
+    "light_log_axis",
+    "new_figure",
+    "nice_ceil",
+    "positive_or_nan",
+    "save_figure",
+    "set_band",
+    "step_limits",
+]
 
 W_UNIT = "W m\u207b\u00b9 K\u207b\u00b9"
 PER_S = "s\u207b\u00b9"

@@ -12,18 +12,19 @@ is marked stale, and "Use fitted values" and Save refuse it until it is refit.
 """
 from __future__ import annotations
 
+import logging
 import math
 import threading
 
-import numpy as np
 import ipywidgets as ipw
+import numpy as np
 
 from . import _engine
 from ._engine import FitError, ParameterError
 from .controls import slider_range
 from .style import css, esc, fmt, label_html, mechanism_colour, unit_text
 
-__all__ = ["FitPanel", "result_rows", "default_free"]
+__all__ = ["FitPanel", "default_free", "result_rows"]
 
 
 def default_free(model) -> list:
@@ -213,7 +214,7 @@ class FitPanel(ipw.VBox):
                 try:
                     self._failed(exc)
                 except Exception:  # noqa: BLE001 - showing must not raise in the thread
-                    pass
+                    log.exception("could not show a failed fit")
             finally:
                 self.fit_button.disabled = False
                 self.cancel_button.disabled = True

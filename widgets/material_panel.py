@@ -9,14 +9,14 @@ the preset is calibrated, on what range and how well, and the engine's scope not
 """
 from __future__ import annotations
 
-from typing import Callable
+from collections.abc import Callable
 
 import ipywidgets as ipw
 
 from . import _engine
 from .style import css, esc, fmt, unit_text
 
-__all__ = ["MaterialPanel", "AS_GIVEN", "calibration_html"]
+__all__ = ["AS_GIVEN", "MaterialPanel", "calibration_html"]
 
 AS_GIVEN = "(model as given)"
 

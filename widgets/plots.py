@@ -7,12 +7,21 @@ from __future__ import annotations
 
 import numpy as np
 
-from .figures import PER_S as _PER_S, W_UNIT as _W_UNIT, Plot, decade_limits
-from .figures import light_log_axis as _light_log_axis, positive_or_nan as _positive_or_nan
+from .figures import PER_S as _PER_S
+from .figures import W_UNIT as _W_UNIT
+from .figures import Plot, decade_limits
+from .figures import light_log_axis as _light_log_axis
+from .figures import positive_or_nan as _positive_or_nan
 from .figures import set_band as _set_band
-from .style import PART_COLOURS, branch_style, branch_title, mechanism_colour, mechanism_title
+from .style import (
+    PART_COLOURS,
+    branch_style,
+    branch_title,
+    mechanism_colour,
+    mechanism_title,
+)
 
-__all__ = ["ConductivityPlot", "RatesPlot", "SpectrumPlot", "AccumulationPlot"]
+__all__ = ["AccumulationPlot", "ConductivityPlot", "RatesPlot", "SpectrumPlot"]
 
 
 class ConductivityPlot(Plot):

@@ -14,8 +14,8 @@ import io
 import os
 from pathlib import Path
 
-import numpy as np
 import ipywidgets as ipw
+import numpy as np
 
 from . import _engine
 from ._engine import FitError, ParameterError

@@ -13,7 +13,7 @@ from __future__ import annotations
 import threading
 from dataclasses import dataclass, field
 
-__all__ = ["WorkbenchState", "Stamped"]
+__all__ = ["Stamped", "WorkbenchState"]
 
 
 @dataclass

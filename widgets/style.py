@@ -11,18 +11,18 @@ import math
 from . import _engine
 
 __all__ = [
-    "MECHANISM_COLOURS",
-    "PART_COLOURS",
     "BRANCH_STYLES",
+    "MECHANISM_COLOURS",
     "MECHANISM_TITLES",
-    "mechanism_colour",
-    "mechanism_title",
+    "PART_COLOURS",
     "branch_style",
+    "css",
     "fmt",
     "fmt_value",
-    "unit_text",
     "label_html",
-    "css",
+    "mechanism_colour",
+    "mechanism_title",
+    "unit_text",
 ]
 
 #: mechanism kind (``Mechanism.kind``) -> colour, used in every plot and table (the engine's colours).

@@ -13,8 +13,8 @@ from __future__ import annotations
 import dataclasses
 import threading
 
-import numpy as np
 import ipywidgets as ipw
+import numpy as np
 
 from . import _engine
 from .style import PART_COLOURS, css, esc, fmt, mechanism_colour

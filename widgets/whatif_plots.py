@@ -4,7 +4,8 @@ from __future__ import annotations
 import numpy as np
 
 from .figures import Plot
-from .figures import light_log_axis as _light_log_axis, positive_or_nan as _positive_or_nan
+from .figures import light_log_axis as _light_log_axis
+from .figures import positive_or_nan as _positive_or_nan
 from .figures import set_band as _set_band
 
 __all__ = ["CurvesPlot", "MapPlot"]
