@@ -48,16 +48,31 @@ from kinetic import (
 from kinetic import fit as _fit
 from kinetic.scattering import MECHANISMS
 
+
+
+def _ours(module):
+    """The module if it belongs to the kinetic package imported here, else None.
+
+    (An editable install of another checkout can otherwise lend a submodule
+    this tree lacks, mixing two versions of the engine.)
+    """
+    home = os.path.dirname(os.path.abspath(kinetic.__file__))
+    return module if os.path.abspath(module.__file__).startswith(home + os.sep) else None
+
+
 try:  # the restructured engine (issue 8): one default model per material
     from kinetic import defaults as _defaults
+    _defaults = _ours(_defaults)
 except ImportError:  # FALLBACK (delete at merge)
     _defaults = None
 try:  # the restructured engine (issue 11): one conductivity chain
     from kinetic import conductivity as _conductivity
+    _conductivity = _ours(_conductivity)
 except ImportError:  # FALLBACK (delete at merge)
     _conductivity = None
 try:  # one atomic-write helper (issue 11)
-    from kinetic._io import atomic_write as _atomic_write
+    from kinetic import _io
+    _atomic_write = _ours(_io).atomic_write if _ours(_io) is not None else None
 except ImportError:  # FALLBACK (delete at merge)
     _atomic_write = None
 
@@ -278,9 +293,8 @@ def _bipolar_fallback():  # FALLBACK (delete at merge): kinetic.conductivity.Bip
 
 def bipolar_parameters() -> dict:
     """``"bipolar.<name>"`` -> :class:`kinetic.Parameter` of the bipolar term."""
-    if _conductivity is not None and hasattr(_conductivity, "BipolarTerm"):
-        params = _conductivity.BipolarTerm().parameters
-        return {f"bipolar.{k}": p for k, p in params.items()}
+    if _conductivity is not None:
+        return dict(_conductivity.BipolarTerm.activated().parameters)
     return _bipolar_fallback()
 
 
@@ -313,7 +327,7 @@ def conductivity_parts(model, temperature, *, bipolar: dict | None = None) -> Pa
     if _conductivity is not None:
         bp = None
         if bipolar is not None:
-            bp = _conductivity.BipolarTerm(**{k.split(".", 1)[1]: v for k, v in bipolar.items()})
+            bp = _conductivity.BipolarTerm("activated", {k.split(".", 1)[1]: v for k, v in bipolar.items()})
         p = _conductivity.ConductivityModel(model, bipolar=bp).parts(T)
         return Parts(T, np.asarray(p.lattice, float), None if bp is None else np.asarray(p.bipolar, float),
                      notes=list(getattr(p, "notes", []) or []))

@@ -75,6 +75,7 @@ def new_figure(width: float = 5.0, height: float = 3.5, dpi: float = 96.0) -> Fi
     c.footer_visible = False
     c.resizable = False
     c.toolbar_position = "right"
+    c.toolbar_visible = False  # its buttons cannot be reached with Tab; export is in "Save / export"
     c.capture_scroll = False
     return fig
 
@@ -195,7 +196,8 @@ def _legend_entry(artist) -> str:
         colour = to_hex(fc[0] if len(fc) else "#cccccc")
         swatch = (f"<span style='display:inline-block;width:1.8em;height:0.8em;vertical-align:middle;"
                   f"background:{colour};opacity:0.35'></span>")
-    return f"<span style='white-space:nowrap;margin-right:1em;font-size:85%'>{swatch} {label}</span>"
+    return (f"<span style='display:inline-block;white-space:nowrap;margin-right:1em;font-size:85%'>"
+            f"{swatch} {label}</span>")
 
 
 def nice_ceil(value: float) -> float:
@@ -319,7 +321,11 @@ class Plot:
             self.canvas._force_full = True
             self.canvas.blit(self.fig.bbox)
             self.blits += 1
-        else:
+        elif self.fast:
+            # render now and send the frame: no round trip to the browser and back for a redraw request
+            self._background = None
+            self.canvas.draw()
+        else:  # from a background thread, or a plot redrawn on demand: let the browser ask for the frame
             self._background = None
             self.canvas.draw_idle()
 
@@ -376,7 +382,8 @@ class Plot:
             return
         self._legend_key = key
         self._legend_kw = kw
-        self.legend.value = "".join(_legend_entry(h) for h in self._handles())
+        self.legend.value = ("<div style='white-space:normal;line-height:1.5'>"
+                             + "".join(_legend_entry(h) for h in self._handles()) + "</div>")
 
     def _handles(self):
         handles = [h for h in self.ax.get_lines() if h.get_visible() and not h.get_label().startswith("_")]

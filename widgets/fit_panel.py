@@ -87,7 +87,7 @@ class FitPanel(ipw.VBox):
         self.wb = workbench
         self.state = workbench.state
         g = workbench.messages.guard
-        self.rows: dict = {}
+        self._all_rows: dict = {}
         self._thread = None
         self._stop = threading.Event()
         self._shown = None  # (fit version, stale) last rendered
@@ -123,25 +123,39 @@ class FitPanel(ipw.VBox):
 
     # --- free-parameter rows ------------------------------------------------------
     def rebuild(self):
-        """Rows for the mechanisms switched on; choices come from the state (kept while a
-        mechanism is off, so they return as they were)."""
-        model = self.wb.model
+        """Rows for every free parameter of the full model (after a change of structure); the
+        choices come from the state, so a mechanism switched off and on keeps them."""
+        full = self.wb.full_model
         if not self.state.free:
-            for k in default_free(model):
-                par = model.parameter_info()[k]
-                lo, hi = slider_range(par)
+            info = self.wb.model.parameter_info()
+            for k in default_free(self.wb.model):
+                lo, hi = slider_range(info[k])
                 self.state.free[k] = (True, lo, hi)
         rows = {}
-        for m in model.scattering:
+        for m in full.scattering:
             for p, par in m.parameters.items():
-                if par.fixed:
-                    continue
-                key = f"{m.name}.{p}"
-                rows[key] = _FreeRow(key, par, self.state.free.get(key), m.kind, self._row_changed)
-        for r in self.rows.values():
+                if not par.fixed:
+                    key = f"{m.name}.{p}"
+                    rows[key] = _FreeRow(key, par, self.state.free.get(key), m.kind, self._row_changed)
+        for r in self._all_rows.values():
             r.widget.close()
-        self.rows = rows
+        self._all_rows = rows
         self.rows_box.children = [r.widget for r in rows.values()]
+        self.sync()
+
+    def sync(self):
+        """Show the rows of the mechanisms switched on (a switch changes no widget but these)."""
+        on = set(self.wb.model.mechanism_names)
+        for key, r in self._all_rows.items():
+            want = None if key.split(".", 1)[0] in on else "none"
+            if r.widget.layout.display != want:
+                r.widget.layout.display = want
+
+    @property
+    def rows(self) -> dict:
+        """Parameter key -> row, for the mechanisms switched on."""
+        on = set(self.wb.model.mechanism_names)
+        return {k: r for k, r in self._all_rows.items() if k.split(".", 1)[0] in on}
 
     def _row_changed(self, row):
         self.state.set_free(row.key, row.check.value, row.lower.value, row.upper.value)
@@ -307,7 +321,8 @@ class FitPanel(ipw.VBox):
             flag = f"<b style='color:#b00020'>{esc(r['flag'])}</b>" if r["flag"] else ""
             rows.append(f"<tr><td><span style='color:{colour}'>\u25a0</span> "
                         f"{label_html(r['label'], '', key)}</td>"
-                        f"<td style='text-align:right'>{fmt(v)}</td><td>{pm}</td><td>{interval}</td>"
+                        f"<td style='text-align:right;white-space:nowrap'>{fmt(v)}</td>"
+                        f"<td style='white-space:nowrap'>{pm}</td><td>{interval}</td>"
                         f"<td>{esc(unit_text(r['unit']))}</td><td>{flag}</td></tr>")
         words = {r["key"]: r["label"] for r in result_rows(res)}
         warn = []
@@ -330,7 +345,8 @@ class FitPanel(ipw.VBox):
         stats += (f"; scatter estimated from the residuals ({100 * res.scatter:.2f}%)" if res.scatter_estimated
                   else "; weights from the stated errors")
         style = "opacity:0.55;" if stale else ""
-        html = ("<style>.kinetic-fit-table td, .kinetic-fit-table th {padding: 1px 6px}</style>"
+        html = ("<style>.kinetic-fit-table td, .kinetic-fit-table th {padding: 1px 6px; line-height: 1.35}"
+                ".kinetic-fit-table .widget-html-content {line-height: 1.35; white-space: normal}</style>"
                 f"<table style='border-collapse:collapse;font-size:90%;{style}'>"
                 "<tr style='border-bottom:1px solid #999'><th style='text-align:left'>parameter</th><th>value</th>"
                 "<th>uncertainty (1\u03c3)</th><th>95% interval</th><th>unit</th><th></th></tr>"
@@ -378,7 +394,7 @@ class FitPanel(ipw.VBox):
 
     def close_all(self):
         self._stop.set()
-        for r in self.rows.values():
+        for r in self._all_rows.values():
             r.widget.close()
         self.close()
 

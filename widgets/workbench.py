@@ -291,7 +291,7 @@ class Workbench(WorkbenchViews, ipw.VBox):
                     f"cannot switch off {mechanism_title(self.full_model.mechanism(name).kind, name).lower()}: "
                     "every branch needs at least one resistive mechanism (boundaries, point defects, "
                     "Umklapp, ...) or its conductivity is infinite") from None
-            self.fit_panel.rebuild()
+            self.fit_panel.sync()
 
     def _add_clicked(self, _button=None):
         kind = self.add_kind.value
@@ -323,7 +323,6 @@ class Workbench(WorkbenchViews, ipw.VBox):
             self._band = None  # the last fit's band belongs to the previous data
             self.data_panel.show(ds)
             self._sync_electronic()
-            self.fit_panel.rebuild()
             self.refresh()
 
     def _sync_electronic(self):
