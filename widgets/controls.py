@@ -334,9 +334,11 @@ class MechanismCard(ipw.VBox):
             box.disabled = not on
 
     def _toggled(self, change):
-        self._show_enabled(bool(change["new"]))
-        if not self._mute:
-            self._on_toggle(self.name, bool(change["new"]))
+        try:
+            if not self._mute:
+                self._on_toggle(self.name, bool(change["new"]))  # the figure first: it is what the user watches
+        finally:
+            self._show_enabled(bool(self.toggle.value))
 
     def _constant_changed(self, key):
         def handler(change):

@@ -321,8 +321,9 @@ class Plot:
             self.canvas._force_full = True
             self.canvas.blit(self.fig.bbox)
             self.blits += 1
-        elif self.fast:
-            # render now and send the frame: no round trip to the browser and back for a redraw request
+        elif self.fast and not getattr(self.canvas, "syncing_data_url", True):
+            # a browser shows the canvas: render now and send the frame, without the round trip of a
+            # redraw request to the browser and back (before the browser is there, it asks for frames)
             self._background = None
             self.canvas.draw()
         else:  # from a background thread, or a plot redrawn on demand: let the browser ask for the frame

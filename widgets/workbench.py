@@ -355,8 +355,8 @@ class Workbench(WorkbenchViews, ipw.VBox):
                 p.stale = True
                 p.fast = not in_thread
             try:
+                self._update_visible_plot()  # first: its frame reaches the browser before the rest
                 self._readouts()
-                self._update_visible_plot()
             finally:
                 for p in self.plots.values():
                     p.fast = True
