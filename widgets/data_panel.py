@@ -85,13 +85,13 @@ class DataPanel(ipw.VBox):
         self._messages = messages
         self.loader_options = dict(loader_options or {})
         self.upload = ipw.FileUpload(accept=".csv,.tsv,.txt,.dat", multiple=False,
-                                     description="Upload a table", layout=ipw.Layout(width="12em"))
+                                     description="Upload a table", layout=ipw.Layout(width="auto"))
         self.upload.add_class(css("upload"))
         self._demos = demo_choices()
         self.demo_choice = ipw.Dropdown(options=list(self._demos) or ["(no demo data available)"],
                                         layout=ipw.Layout(width="17em"))
         self.use_demo = ipw.Button(description="Use demo data", disabled=not self._demos,
-                                   layout=ipw.Layout(width="9em"))
+                                   layout=ipw.Layout(width="auto"))
         self.use_demo.add_class(css("use-demo"))
         self.summary = ipw.HTML()
         self.summary.add_class(css("data-summary"))

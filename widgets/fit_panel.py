@@ -98,10 +98,10 @@ class FitPanel(ipw.VBox):
                                          tooltip="n_starts: the model's values plus seeded random starts")
         self.starts.add_class(css("fit-starts"))
         self.fit_button = ipw.Button(description="Fit", button_style="primary", icon="play",
-                                     layout=ipw.Layout(width="6em"))
+                                     layout=ipw.Layout(width="auto"))
         self.fit_button.add_class(css("fit"))
         self.cancel_button = ipw.Button(description="Cancel", icon="stop", disabled=True,
-                                        layout=ipw.Layout(width="7em"))
+                                        layout=ipw.Layout(width="auto"))
         self.cancel_button.add_class(css("fit-cancel"))
         self.use_button = ipw.Button(description="Use fitted values", disabled=True,
                                      layout=ipw.Layout(width="auto"))

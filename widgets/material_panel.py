@@ -74,7 +74,8 @@ class MaterialPanel(ipw.VBox):
         self.choice.observe(messages.guard(self._chosen), names="value")
         self.branches = ipw.ToggleButtons(options=[("one averaged branch", False),
                                                    ("longitudinal + transverse", True)],
-                                          value=bool(split), style={"button_width": "12.5em"})
+                                          value=bool(split), style={"button_width": "auto"},
+                                          tooltips=["split_branches=False", "split_branches=True"])
         self.branches.add_class(css("branches"))
         self.branches.observe(messages.guard(self._chosen), names="value")
         self.calibration = ipw.HTML()

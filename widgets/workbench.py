@@ -138,7 +138,9 @@ class Workbench(WorkbenchViews, ipw.VBox):
     # --- building -----------------------------------------------------------------------
     def _build(self, temperature: float):
         g = self.messages.guard
-        title = ipw.HTML("<b style='font-size:115%'>Thermal conductivity workbench</b>",
+        title = ipw.HTML("<style>.kinetic-workbench .widget-html-content {line-height: 1.4; white-space: normal}"
+                         ".kinetic-workbench .kinetic-readout .widget-html-content {white-space: nowrap}</style>"
+                         "<b style='font-size:115%'>Thermal conductivity workbench</b>",
                          layout=ipw.Layout(margin="0 1.2em 0 0"))
         self.readouts = {k: ipw.HTML() for k in ("temperature", "lattice", "electronic", "bipolar", "total",
                                                   "floor")}

@@ -181,6 +181,15 @@ def _layout_check(page, label: str):
     assert t[1] < c[3], (label, box)  # beside the figure, not below it
     truncated = page.evaluate(_TRUNCATED, wb.element_handle())
     assert truncated == [], (label, truncated)
+    # every label of every tab and section, each in turn (folded ones have no size)
+    for tab in ("Model", "What if", "Save / export", "Fit"):
+        _work_tab(page, tab)
+        sections = ("Measured data", "Material and branches", "Scattering mechanisms", "Electronic part")
+        for section in sections if tab == "Model" else (None,):
+            if section:
+                _section(page, section)
+            truncated = page.evaluate(_TRUNCATED, wb.element_handle())
+            assert truncated == [], (label, tab, section, truncated)
 
 
 def test_workbench_in_a_real_browser(page, lab):
