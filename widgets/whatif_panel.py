@@ -23,7 +23,7 @@ from .whatif_plots import CurvesPlot, MapPlot
 __all__ = ["WhatIfPanel"]
 
 _W = "W m\u207b\u00b9 K\u207b\u00b9"
-NO_PARTNER = "(choose a partner)"
+NO_PARTNER = "(none)"
 
 
 class _Cancelled(Exception):
@@ -116,7 +116,7 @@ class WhatIfPanel(ipw.VBox):
         host = mat.name if mat is not None else None
         partners = [NO_PARTNER] + [n for n in _engine.material_names() if n != host]
         usual = {"Si": "Ge", "Ge": "Si"}.get(host)
-        keep = self.partner.value if self.partner.value in partners else None
+        keep = self.partner.value if self.partner.value in partners and self.partner.value != NO_PARTNER else None
         self.partner.options = partners
         self.partner.value = keep or (usual if usual in partners else NO_PARTNER)
 

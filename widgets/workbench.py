@@ -193,7 +193,7 @@ class Workbench(WorkbenchViews, ipw.VBox):
         options = [(t, k) for t, k in zip(_PLOT_TITLES, _PLOT_ORDER)]
         options += [(f"what-if: {t}", k) for k, t in self.whatif_panel.TITLES.items()]
         self.figure_choice = ipw.Dropdown(options=options, value="conductivity", description="figure",
-                                          style={"description_width": "4em"}, layout=ipw.Layout(width="22em"))
+                                          style={"description_width": "4em"}, layout=ipw.Layout(width="451px"))
         self.figure_choice.add_class(css("figure-choice"))
         self.figure_stack = ipw.Box([self.plots["conductivity"].widget])
         self.figure_stack.add_class(css("figures"))
