@@ -28,11 +28,11 @@ from pathlib import Path
 ROOT = Path(__file__).resolve().parent.parent
 sys.path.insert(0, str(ROOT))
 
-import matplotlib  # noqa: E402
+import matplotlib
 
 matplotlib.use("module://ipympl.backend_nbagg")
 
-import numpy as np  # noqa: E402
+import numpy as np
 
 N_MOVES = 40
 BROWSER_TIMINGS = ROOT / "artifacts" / "browser_timings.json"

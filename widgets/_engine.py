@@ -18,7 +18,6 @@ from __future__ import annotations
 
 import inspect
 import os
-import re
 import tempfile
 from dataclasses import dataclass, field
 from typing import NamedTuple
@@ -48,6 +47,7 @@ from kinetic import (
 from kinetic import fit as _fit
 from kinetic.scattering import MECHANISMS
 
+from ._fallback_words import _MECH_COLOURS, _MECH_WORDS, _PARAM_WORDS, _SPARE
 
 
 def _ours(module):
@@ -115,7 +115,6 @@ __all__ = [
     "report_rows",
     "save_record",
     "scope_notes",
-    "unit_text",
     "whatif",
     "with_number",
 ]
@@ -368,6 +367,10 @@ def fit(model, data, free, *, bounds=None, lorenz_method="auto", n_starts=4, pro
     return _fit(model, data, free, **kw)
 
 
+def _num(v) -> float:
+    return float("nan") if v is None else float(v)
+
+
 def correlation_limit() -> float:
     """|r| above which the fitter calls two parameters strongly correlated."""
     from kinetic.fitting import CORRELATION_LIMIT
@@ -377,13 +380,16 @@ def correlation_limit() -> float:
 
 def report_rows(result, level: float = 0.95) -> list:
     """Rows of a fit report: dicts with key, label, value, stderr, lower, upper, unit, flag."""
-    if hasattr(result, "report_rows"):
+    if hasattr(result, "report_rows"):  # the engine's one source of report rows (kinetic.fitting.ReportRow)
+        nan = float("nan")
         out = []
         for r in result.report_rows(level):
-            d = dict(r) if isinstance(r, dict) else dict(vars(r))
-            d.setdefault("key", d.get("name"))
-            d.setdefault("label", parameter_words(d["key"]))
-            out.append(d)
+            if getattr(r, "kind", "parameter") != "parameter":
+                continue  # the statistics are shown in their own line
+            lo, hi = r.interval if r.interval is not None else (nan, nan)
+            out.append({"key": r.code_key, "label": parameter_words(r.code_key), "value": _num(r.value),
+                        "stderr": _num(r.error), "lower": _num(lo), "upper": _num(hi), "unit": r.unit or "",
+                        "flag": r.note or ""})
         return out
     # FALLBACK (delete at merge): one row per free parameter from the FitResult's fields
     rows = []
@@ -433,22 +439,6 @@ def atomic_write(path, data) -> str:
 
 # ---------------------------------------------------------------------------------------
 # words and colours
-_MECH_WORDS = {  # FALLBACK (delete at merge): Mechanism classes' `label`
-    "boundary": "Boundaries (grain size)",
-    "point_defect": "Point defects (mass disorder)",
-    "umklapp": "Umklapp (anharmonic)",
-    "normal": "Normal processes",
-    "electron_phonon": "Free carriers",
-    "dislocation": "Dislocations",
-    "precipitate": "Nanoprecipitates",
-}
-_MECH_COLOURS = {  # FALLBACK (delete at merge): Mechanism classes' `colour`
-    "boundary": "#1f77b4", "point_defect": "#2ca02c", "umklapp": "#d62728", "normal": "#9467bd",
-    "electron_phonon": "#8c564b", "dislocation": "#e377c2", "precipitate": "#17becf",
-}
-_SPARE = ("#bcbd22", "#7f7f7f", "#ff9896", "#aec7e8")
-
-
 def mechanism_label(kind: str) -> str:
     """Plain-words name of a mechanism kind."""
     cls = MECHANISMS.get(kind)
@@ -467,22 +457,6 @@ def mechanism_colour(kind: str) -> str:
     if kind in _MECH_COLOURS:
         return _MECH_COLOURS[kind]
     return _SPARE[sum(map(ord, str(kind))) % len(_SPARE)]
-
-
-_PARAM_WORDS = {  # FALLBACK (delete at merge): plain-words Parameter.label of the engine
-    "length": "grain size (boundary length)",
-    "specularity": "share of specular reflections",
-    "gamma": "mass-disorder strength \u0393",
-    "A": "point-defect strength A",
-    "volume_per_atom": "volume per atom",
-    "gruneisen": "Gr\u00fcneisen parameter",
-    "atomic_mass": "mean atomic mass",
-    "b": "Umklapp temperature-exponent divisor",
-    "B": "Umklapp strength B",
-    "prefactor": "bipolar strength C",
-    "band_gap": "band gap",
-}
-_CODE_KEY = re.compile(r"^[a-z_]+[A-Za-z0-9_]*$")
 
 
 def parameter_words(key: str, parameter=None) -> str:
@@ -505,13 +479,3 @@ def parameter_words(key: str, parameter=None) -> str:
     if suffix:
         words += f" [{suffix.rstrip(']')}]"
     return words
-
-
-_SUP = str.maketrans("-0123456789", "\u207b\u2070\u00b9\u00b2\u00b3\u2074\u2075\u2076\u2077\u2078\u2079")
-
-
-def unit_text(unit: str) -> str:
-    """A unit in the workbench's one notation, superscripts: ``"W m^-1 K^-1"`` -> ``"W m⁻¹ K⁻¹"``."""
-    if not unit:
-        return ""
-    return re.sub(r"\^(-?\d+)", lambda m: m.group(1).translate(_SUP), str(unit))

@@ -27,6 +27,8 @@ from .style import css, esc, fmt, label_html, mechanism_colour, unit_text
 
 __all__ = ["FitPanel", "default_free", "result_rows"]
 
+log = logging.getLogger("widgets")
+
 
 def default_free(model) -> list:
     """Free parameters ticked at first: the engine's choice."""
@@ -228,7 +230,7 @@ class FitPanel(ipw.VBox):
                 outcome["error"] = exc
                 try:
                     self._failed(exc)
-                except Exception:  # noqa: BLE001 - showing must not raise in the thread
+                except Exception:
                     log.exception("could not show a failed fit")
             finally:
                 self.fit_button.disabled = False

@@ -7,6 +7,7 @@ and the what-if plots. No physics: only names, colours and text formatting.
 from __future__ import annotations
 
 import math
+import re
 
 from . import _engine
 
@@ -99,9 +100,14 @@ def css(name: str) -> str:
     return f"kinetic-{name}"
 
 
+_SUP = str.maketrans("-0123456789", "\u207b\u2070\u00b9\u00b2\u00b3\u2074\u2075\u2076\u2077\u2078\u2079")
+
+
 def unit_text(unit: str) -> str:
-    """A unit in the one notation of the workbench (superscripts: W m⁻¹ K⁻¹)."""
-    return _engine.unit_text(unit)
+    """A unit in the one notation of the workbench, superscripts: ``"W m^-1 K^-1"`` -> ``"W m⁻¹ K⁻¹"``."""
+    if not unit:
+        return ""
+    return re.sub(r"\^(-?\d+)", lambda m: m.group(1).translate(_SUP), str(unit))
 
 
 def esc(text) -> str:

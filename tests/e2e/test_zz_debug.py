@@ -1,4 +1,5 @@
 import pytest
+
 pytestmark = pytest.mark.e2e
 
 def test_debug(page, lab):
