@@ -467,13 +467,14 @@ def parameter_words(key: str, parameter=None) -> str:
     if parameter is not None:
         lab = getattr(parameter, "plain_label", None)  # the engine's plain words, if it has them
         words = lab if isinstance(lab, str) and lab else None
+    mech = base.split(".", 1)[0] if "." in base else ""
+    kind = mech if mech in MECHANISMS else mech.rsplit("_", 1)[0]  # umklapp_L -> umklapp
     if words is None:
-        words = _PARAM_WORDS.get(name)
+        words = _PARAM_WORDS.get(f"{kind}.{name}") or _PARAM_WORDS.get(name)
     if words is None and parameter is not None and parameter.description:
         words = parameter.description
     if words is None:
         words = name.replace("_", " ")
-    mech = base.split(".", 1)[0] if "." in base else ""
     if mech and mech not in MECHANISMS and mech != "bipolar" and name not in ("length",):
         words = f"{words} ({mech.replace('_', ' ')})"  # a renamed mechanism, e.g. umklapp_L
     if suffix:
