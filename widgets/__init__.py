@@ -8,6 +8,7 @@ ipywidgets as ``ipw``: this package is itself named ``widgets``.
 >>> Workbench()                       # doctest: +SKIP
 """
 from .style import MECHANISM_COLOURS, mechanism_colour
+from .state import WorkbenchState
 from .workbench import Workbench, default_model
 
-__all__ = ["MECHANISM_COLOURS", "Workbench", "default_model", "mechanism_colour"]
+__all__ = ["MECHANISM_COLOURS", "Workbench", "WorkbenchState", "default_model", "mechanism_colour"]

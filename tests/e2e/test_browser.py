@@ -232,6 +232,7 @@ def test_workbench_in_a_real_browser(page, lab):
     _work_tab(page, "Fit")
     expect(page.locator(".kinetic-fit-table")).to_contain_text("Stale", timeout=30_000)
     expect(page.locator(".kinetic-fit-use")).to_be_disabled()
+    page.locator(".kinetic-fit-table").evaluate("el => el.scrollIntoView({block: 'nearest'})")
     page.screenshot(path=str(ARTIFACTS / "stale-fit.png"))
     _work_tab(page, "Model")
     box_b.fill(old_b)
