@@ -250,6 +250,11 @@ def test_workbench_in_a_real_browser(page, lab):
     canvas_div.focus()
     page.keyboard.press("Shift+Tab")
     assert not page.evaluate("() => !!document.activeElement.closest('.jupyter-matplotlib-canvas-div')")
+    _tab_reaches_every_control(page)  # header, figure, Fit tab
+    _work_tab(page, "Model")
+    _section(page, "Scattering mechanisms")
+    _tab_reaches_every_control(page)  # sliders, exact boxes, switches
+    _work_tab(page, "Save / export")
     _tab_reaches_every_control(page)
 
     # --- exports: names follow figure and sample; PNG 300 dpi, SVG, PDF; curves as CSV -------------------
@@ -325,6 +330,7 @@ def _tab_reaches_every_control(page):
         const root = document.querySelector('.kinetic-workbench');
         const sel = 'input, select, button, textarea, [tabindex]:not([tabindex="-1"])';
         const out = [];
+        document.querySelectorAll('[data-kin-tab]').forEach(el => el.removeAttribute('data-kin-tab'));
         root.querySelectorAll(sel).forEach((el, i) => {
             const r = el.getBoundingClientRect();
             const hidden = r.width === 0 || r.height === 0 || el.disabled || el.type === 'file'
