@@ -396,7 +396,11 @@ def report_rows(result, level: float = 0.95) -> list:
     at_bound = set(result.flags.at_bound)
     unidentified = set(result.flags.unidentified)
     for n in result.names:
-        lo, hi = result.interval(n, level)
+        try:
+            lo, hi = result.interval(n, level)
+        except OverflowError:  # an interval of a log parameter beyond floating point: not determined
+            lo = hi = float("nan")
+            unidentified.add(n)
         if n in at_bound:
             flag, lo, hi = "at a bound: interval not determined", float("nan"), float("nan")
         elif n in unidentified:
