@@ -21,20 +21,18 @@ import matplotlib
 
 matplotlib.use("module://ipympl.backend_nbagg")
 
+import ipywidgets as ipw
 import numpy as np
 import pytest
-import ipywidgets as ipw
 
-from kinetic import demo, materials
+from kinetic import demo, materials, whatif
 from kinetic.fitting import fit
 from kinetic.lattice import LatticeModel
 from kinetic.records import load_record
 from kinetic.scattering import Boundary, Umklapp
-from kinetic import whatif
-
 from widgets import MECHANISM_COLOURS, Workbench, default_model
-from widgets.plots import decade_label, decade_limits, nice_ceil, step_limits
-from widgets.style import fmt
+from widgets.figures import _slug, decade_label, decade_limits, nice_ceil, step_limits
+from widgets.style import fmt, unit_text
 
 pytestmark = pytest.mark.filterwarnings(
     "ignore:Passing unrecognized arguments to super\\(Toolbar\\):DeprecationWarning")
@@ -75,7 +73,9 @@ def test_sliders_come_from_parameter_metadata(wb):
     assert set(wb.controls) == free  # fixed (material) constants are not sliders
     for key, ctl in wb.controls.items():
         p = info[key]
-        assert p.label in ctl.label.value  # unit in every label
+        assert ctl.words in ctl.label.value and f"title='{key}'" in ctl.label.value  # words, code key as tooltip
+        if p.unit:
+            assert unit_text(p.unit) in ctl.label.value  # unit in every label, one notation
         assert isinstance(ctl.slider, ipw.FloatLogSlider) == p.log
     fixed = {k for k, p in info.items() if p.fixed}
     shown = {k for card in wb.cards.values() for k in card.constants}
@@ -174,16 +174,14 @@ def test_adding_a_mechanism_builds_its_card_and_lowers_kappa(wb):
 
 
 def test_material_and_branch_choices_rebuild_the_model(wb):
-    wb.material_choice.value = "Si"
+    wb.material_panel.choose("Si")
     assert wb.model.material == "Si"
-    si = materials.get("Si")
-    assert wb.model.params["point_defect.volume_per_atom"] == si.volume_per_atom
-    assert wb.model.params["umklapp.gruneisen"] == si.gruneisen
-    wb.branch_choice.value = True
+    assert wb.model.params == default_model("Si").params  # the engine's default model of the preset
+    wb.material_panel.branches.value = True
     assert wb.model.branch_names == ("L", "T")
-    expected = LatticeModel.from_material(si, scattering=wb.model.scattering, split_branches=True)
+    expected = default_model("Si", split_branches=True)
     assert wb.kappa_at_temperature == pytest.approx(float(expected.kappa(300.0)), rel=1e-12)  # same model
-    wb.figure_tabs.selected_index = 1
+    wb.show_figure("rates")
     rates = wb.plots["rates"]
     styles = {b: {l.get_linestyle() for (bb, _), l in rates.lines.items() if bb == b and l.get_visible()}
               for b in ("L", "T")}
@@ -196,9 +194,9 @@ def test_model_as_given_without_preset():
     w = Workbench(model=model)
     try:
         assert w.data is None and w.material is None
-        assert w.material_choice.value == "(model as given)"
+        assert w.material_panel.choice.value == "(model as given)"
         assert w.readouts["floor"].value == ""  # no preset: no Cahill-Watson-Pohl floor
-        w.branch_choice.value = True
+        w.material_panel.branches.value = True
         assert w.model.branch_names == ("avg",) and "material preset" in w.messages.last_error
         assert w.kappa_at_temperature == pytest.approx(float(model.kappa(300.0)), rel=1e-12)  # same model
     finally:
@@ -208,7 +206,7 @@ def test_model_as_given_without_preset():
 # --- plots ------------------------------------------------------------------------------
 def test_rates_plot_shows_each_mechanism_in_its_colour(wb):
     wb.temperature.value = 150.0
-    wb.figure_tabs.selected_index = 1
+    wb.show_figure("rates")
     plot = wb.plots["rates"]
     model = wb.model
     b = model.branches[0]
@@ -231,7 +229,7 @@ def test_spectrum_and_mean_free_path_plots(wb):
     mfp = wb.plots["mfp"]
     np.testing.assert_allclose(mfp.line.get_ydata(), s.kappa_accumulated[s.mfp > 0], rtol=1e-12)  # same call
     assert mfp.grain.get_xdata()[0] == wb.model.params["boundary.length"]
-    wb.figure_tabs.selected_index = 3
+    wb.show_figure("mfp")
     wb.controls["boundary.length"].box.value = "3e-7"
     assert mfp.grain.get_xdata()[0] == 3e-7
     lo, hi = mfp.ax.get_xlim()
@@ -239,10 +237,10 @@ def test_spectrum_and_mean_free_path_plots(wb):
 
 
 def test_hidden_plots_are_updated_when_shown(wb):
-    wb.figure_tabs.selected_index = 0
+    wb.show_figure("conductivity")
     wb.controls["umklapp.gruneisen"].slider.value = 2.2
     assert wb.plots["spectrum"].stale
-    wb.figure_tabs.selected_index = 2
+    wb.show_figure("spectrum")
     assert not wb.plots["spectrum"].stale
     np.testing.assert_allclose(wb.plots["spectrum"].lines["avg"].get_ydata(),
                                wb.model.spectral(300.0).kappa_omega["avg"], rtol=1e-12)  # same call
@@ -306,7 +304,7 @@ def test_good_upload_enables_the_electronic_split(wb):
 def test_upload_without_resistivity_disables_the_split(wb):
     _upload(wb, "plain.csv", b"T [K], kappa [W/(m K)]\n100, 12\n200, 9\n300, 7\n")
     assert wb.electronic_on.disabled and not wb.electronic_on.value
-    assert "no resistivity" in wb.electronic_info.value
+    assert "no resistivity" in wb.electronic_panel.info.value
 
 
 def test_lorenz_method_changes_the_electronic_part(wb):
@@ -408,9 +406,12 @@ def test_whatif_studies_use_the_model_and_the_fit_band(wb):
     wb.fit_panel.use_fitted_values()
     wp = wb.whatif_panel
     wp.update_button.click()  # no alloy partner chosen yet for this host: no alloy studies
+    wp.join(60)
     assert set(wp.last) == {"grain", "zt"} and "choose an alloy partner" in wp.status.value
+    assert wp.progress.value == wp.progress.max and wp.progress.bar_style == "success"
     wp.partner.value = "Ge"
     wp.update_button.click()
+    wp.join(60)
     assert set(wp.last) == {"grain", "alloy", "map", "zt"}, wb.messages.messages
     lengths = wp.plots["grain"].lines["model"].get_xdata()
     direct = whatif.grain_size_sweep(wb.model, lengths, 300.0, wb.result)
@@ -419,7 +420,7 @@ def test_whatif_studies_use_the_model_and_the_fit_band(wb):
     assert wp.last["map"].kappa.shape == (21, 31)
     assert "best" in wp.plots["zt"].title.get_text()
     wb.controls["umklapp.gruneisen"].slider.value = 1.2
-    assert "model changed" in wp.status.value
+    assert "Stale" in wp.status.value and wp.stale
 
 
 # --- session and exports ------------------------------------------------------------------
@@ -430,6 +431,7 @@ def test_save_and_load_a_record_and_export(tmp_path, wb):
     res = wb.fit_panel.run(blocking=True)
     rec_path = tmp_path / "session.json"
     sp.record_path.value = str(rec_path)
+    assert not sp.save_button.disabled
     sp.save_button.click()
     rec = load_record(rec_path)
     assert rec.values == pytest.approx(res.values, rel=1e-15)  # floats round-trip exactly through repr
@@ -443,21 +445,25 @@ def test_save_and_load_a_record_and_export(tmp_path, wb):
         assert other.fit_panel.result is not None and other.plots["conductivity"].band.get_visible()
     finally:
         other.close()
-    png = tmp_path / "k.png"
-    sp.figure_path.value = str(png)
-    sp.export_figure_button.click()
-    assert png.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"
+    sp.folder.value = str(tmp_path)
+    sp.figure_choice.value = "conductivity"
+    for fmt_, magic in (("png", b"\x89PNG\r\n\x1a\n"), ("svg", b"<?xml"), ("pdf", b"%PDF")):
+        sp.format_choice.value = fmt_
+        sp.export_figure_button.click()
+        out = tmp_path / f"kappa_T-{_slug(wb.data.label)}.{fmt_}"
+        assert out.read_bytes()[:len(magic)] == magic, wb.messages.messages
+    sp.export_curves_button.click()
+    curves = (tmp_path / f"kappa_T-{_slug(wb.data.label)}.csv").read_text().splitlines()
+    assert "model: lattice: temperature T [K]" in curves[0] and len(curves) > 100
     csv_path = tmp_path / "fit.csv"
     sp.table_choice.value = "fit"
-    sp.table_path.value = str(csv_path)
-    sp.export_table_button.click()
+    sp.export_table(path=csv_path)
     lines = csv_path.read_text().splitlines()
-    assert lines[0].startswith("parameter,value,stderr")
+    assert lines[0].startswith("parameter,key,value,stderr")
     row = dict(zip(lines[0].split(","), lines[1].split(",")))
-    assert float(row["value"]) == res.values[row["parameter"]]  # repr round trip
+    assert float(row["value"]) == res.values[row["key"]]  # repr round trip
     sp.table_choice.value = "data"
-    sp.table_path.value = str(tmp_path / "data.csv")
-    sp.export_table_button.click()
+    sp.export_table(path=tmp_path / "data.csv")
     assert len((tmp_path / "data.csv").read_text().splitlines()) == len(wb.data.temperature) + 1
     leftovers = [p.name for p in tmp_path.iterdir() if p.name.startswith(".")]
     assert leftovers == []  # atomic writes leave no temporary files
@@ -465,14 +471,16 @@ def test_save_and_load_a_record_and_export(tmp_path, wb):
 
 def test_export_refuses_wrong_suffix_and_missing_study(tmp_path, wb):
     sp = wb.session_panel
-    sp.figure_path.value = str(tmp_path / "k.jpg")
-    sp.export_figure_button.click()
-    assert ".png" in wb.messages.last_error
+    with pytest.raises(Exception, match=r"\.png"):
+        sp.export_figure(path=tmp_path / "k.jpg")
+    sp.folder.value = str(tmp_path)
     sp.table_choice.value = "grain"
-    sp.table_path.value = str(tmp_path / "g.csv")
     sp.export_table_button.click()
     assert "Update what-ifs" in wb.messages.last_error
-    assert not (tmp_path / "g.csv").exists()
+    sp.figure_choice.value = "map"
+    sp.export_figure_button.click()
+    assert "Update what-ifs" in wb.messages.last_error
+    assert list(tmp_path.iterdir()) == []
 
 
 def test_loading_a_damaged_record_keeps_the_session(tmp_path, wb):

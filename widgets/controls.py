@@ -10,16 +10,22 @@ its controls without any change here.
 from __future__ import annotations
 
 import math
-from typing import Callable
+from collections.abc import Callable
 
 import ipywidgets as ipw
 
-from kinetic.errors import ParameterError
-from kinetic.parameters import Parameter
+from ._engine import Parameter, ParameterError, parameter_words
+from .style import (
+    css,
+    esc,
+    fmt,
+    label_html,
+    mechanism_colour,
+    mechanism_title,
+    unit_text,
+)
 
-from .style import css, fmt, mechanism_colour, mechanism_title
-
-__all__ = ["ParameterControl", "MechanismCard", "slider_range"]
+__all__ = ["MechanismCard", "ParameterControl", "slider_range"]
 
 #: steps across a slider's range; one arrow-key press moves one step.
 SLIDER_STEPS = 200
@@ -61,10 +67,13 @@ class ParameterControl(ipw.VBox):
     -----
     The slider covers ``Parameter.bounds``; the box takes any value the model
     accepts (a value beyond the slider's range leaves the slider at its end).
+    The box is the readout: it shows the value in use, and a typed value is
+    used exactly as typed (600 stays 600.0). The slider has no readout of its
+    own, because its position is rounded to its steps.
     """
 
     def __init__(self, key: str, parameter: Parameter, on_change: Callable | None = None,
-                 on_error: Callable | None = None):
+                 on_error: Callable | None = None, *, steps: int = SLIDER_STEPS):
         self.key = key
         self.parameter = parameter
         self.on_change = on_change
@@ -76,21 +85,25 @@ class ParameterControl(ipw.VBox):
         self._value = v
         # small or large numbers read better in exponent form on the slider's readout
         form = ".2e" if 0 < lo < 1e-3 or hi > 1e5 else ".3g"
-        common = dict(continuous_update=True, readout=True, readout_format=form,
-                      layout=ipw.Layout(width="16em"), style={"description_width": "0px"})
+        common = dict(continuous_update=True, readout=False, readout_format=form,
+                      layout=ipw.Layout(width="13em"), style={"description_width": "0px"})
         if parameter.log:
             a, b = math.log10(lo), math.log10(hi)
             self.slider = ipw.FloatLogSlider(value=min(max(v, lo), hi), base=10.0, min=a, max=b,
-                                             step=(b - a) / SLIDER_STEPS, **common)
+                                             step=(b - a) / steps, **common)
         else:
             self.slider = ipw.FloatSlider(value=min(max(v, lo), hi), min=lo, max=hi,
-                                          step=(hi - lo) / SLIDER_STEPS, **common)
+                                          step=(hi - lo) / steps, **common)
         # exact entry: the text is read as a number when Enter is pressed or the box loses focus
-        self.box = ipw.Text(value=self._show(v), continuous_update=False, layout=ipw.Layout(width="7.5em"))
+        self.box = ipw.Text(value=self._show(v), continuous_update=False, layout=ipw.Layout(width="7em"),
+                            tooltip=f"{key}: type a value and press Enter")
+        self.unit = ipw.HTML(esc(unit_text(parameter.unit)), layout=ipw.Layout(width="5em"))
         self._recent: list = []  # exact values set from Python since the last real slider move
         self._remember(v)
-        self.label = ipw.HTML(value=f"<span title='{key}' style='font-size:92%'>{parameter.label}</span>",
-                              layout=ipw.Layout(height="1.3em", margin="0"))
+        self.words = parameter_words(key, parameter)
+        self.label = ipw.HTML(value=label_html(self.words, parameter.unit, key),
+                              layout=ipw.Layout(margin="0"))
+        self.label.add_class(css("label"))
         slug = key.replace(".", "-").replace("_", "-")
         self.slider.add_class(css("slider"))
         self.slider.add_class(css(f"slider-{slug}"))
@@ -98,7 +111,8 @@ class ParameterControl(ipw.VBox):
         self.add_class(css("parameter"))
         self.slider.observe(self._from_slider, names="value")
         self.box.observe(self._from_box, names="value")
-        super().__init__([self.label, ipw.HBox([self.slider, self.box])],
+        self.slider.tooltip = key
+        super().__init__([self.label, ipw.HBox([self.slider, self.box, self.unit])],
                          layout=ipw.Layout(margin="0"))
 
     @staticmethod
@@ -111,6 +125,11 @@ class ParameterControl(ipw.VBox):
     def value(self) -> float:
         """Current value [SI unit of the parameter]: the exact number in use."""
         return self._value
+
+    @value.setter
+    def value(self, v: float) -> None:
+        """Set the value as a user would (the workbench follows)."""
+        self.set_value(v, notify=True)
 
     def set_value(self, value: float, notify: bool = False) -> None:
         """Show ``value`` in slider and box; call ``on_change`` only if ``notify``."""
@@ -228,8 +247,10 @@ class MechanismCard(ipw.VBox):
     toggle : ipw.Checkbox
     controls : dict of str -> ParameterControl
         Sliders of the free (not fixed) parameters, keyed ``"<name>.<param>"``.
-    constants : dict of str -> ipw.FloatText
-        Boxes of the fixed (material) parameters, in a folded "constants" section.
+    constants : dict of str -> ipw.Text
+        Boxes of the fixed (material) parameters, in a folded "constants" section;
+        a typed value is used exactly as typed (a Text box: the browser never
+        reformats it, so it never echoes a rounded value back).
     """
 
     def __init__(self, mechanism, on_change: Callable, on_toggle: Callable, enabled: bool = True,
@@ -243,23 +264,26 @@ class MechanismCard(ipw.VBox):
             f"<span style='display:inline-block;width:0.9em;height:0.9em;background:{colour};"
             "border-radius:2px;margin-top:0.45em'></span>", layout=ipw.Layout(width="1.2em"))
         self.toggle = ipw.Checkbox(value=bool(enabled), description=mechanism_title(self.kind, self.name),
-                                   indent=False, layout=ipw.Layout(width="auto"))
+                                   indent=False, layout=ipw.Layout(width="auto"),
+                                   tooltip=f"{self.name} ({self.kind})")
         self.toggle.add_class(css("toggle"))
         self.toggle.add_class(css(f"toggle-{self.name.replace('_', '-')}"))
         self.toggle.observe(self._toggled, names="value")
         self.controls: dict = {}
         self.constants: dict = {}
+        self._constant_values: dict = {}
         rows = []
         fixed_rows = []
         for pname, par in mechanism.parameters.items():
             key = f"{self.name}.{pname}"
             if par.fixed:
-                box = ipw.FloatText(value=float(par.value), description=par.label,
-                                    style={"description_width": "13em"},
-                                    layout=ipw.Layout(width="22em"))
+                box = ipw.Text(value=f"{float(par.value):.6g}", continuous_update=False,
+                               layout=ipw.Layout(width="7em"), tooltip=key)
                 box.observe(self._constant_changed(key), names="value")
                 self.constants[key] = box
-                fixed_rows.append(box)
+                self._constant_values[key] = float(par.value)
+                fixed_rows.append(ipw.HBox([ipw.HTML(label_html(parameter_words(key, par), par.unit, key),
+                                                     layout=ipw.Layout(width="15em")), box]))
             else:
                 ctl = ParameterControl(key, par, on_change=on_change, on_error=on_error)
                 self.controls[key] = ctl
@@ -267,7 +291,7 @@ class MechanismCard(ipw.VBox):
         children = [ipw.HBox([swatch, self.toggle])] + rows
         if fixed_rows:
             fold = ipw.Accordion(children=[ipw.VBox(fixed_rows)], selected_index=None)
-            fold.set_title(0, "constants (material, held fixed)")
+            fold.set_title(0, "material constants (held fixed)")
             children.append(fold)
         super().__init__(children, layout=ipw.Layout(border_left=f"3px solid {colour}",
                                                      padding="2px 0 4px 6px", margin="0 0 6px 0"))
@@ -294,9 +318,10 @@ class MechanismCard(ipw.VBox):
                 self.controls[key].set_value(v)
             elif key in self.constants:
                 box = self.constants[key]
+                self._constant_values[key] = float(v)
                 self._mute = True
                 try:
-                    box.value = float(v)
+                    box.value = f"{float(v):.6g}"
                 finally:
                     self._mute = False
 
@@ -309,18 +334,32 @@ class MechanismCard(ipw.VBox):
             box.disabled = not on
 
     def _toggled(self, change):
-        self._show_enabled(bool(change["new"]))
-        if not self._mute:
-            self._on_toggle(self.name, bool(change["new"]))
+        try:
+            if not self._mute:
+                self._on_toggle(self.name, bool(change["new"]))  # the figure first: it is what the user watches
+        finally:
+            self._show_enabled(bool(self.toggle.value))
 
     def _constant_changed(self, key):
         def handler(change):
-            if not self._mute:
-                self._on_change(key, float(change["new"]))
+            if self._mute:
+                return
+            text = str(change["new"]).strip()
+            try:
+                v = float(text)
+            except ValueError:
+                self._mute = True
+                try:
+                    self.constants[key].value = f"{self._constant_values[key]:.6g}"
+                finally:
+                    self._mute = False
+                raise ParameterError(f"{key}: expected a number such as 2.0e-29, got {text!r}") from None
+            self._constant_values[key] = v
+            self._on_change(key, v)
         return handler
 
 
-def format_parameter(p: Parameter, value: float | None = None) -> str:
-    """``"boundary length = 1.000e-06 m"`` for tables."""
+def format_parameter(key: str, p: Parameter, value: float | None = None) -> str:
+    """``"grain size (boundary length) = 1e-06 m"`` for tables."""
     v = p.value if value is None else value
-    return f"{p.description or p.name} = {fmt(v)}" + (f" {p.unit}" if p.unit else "")
+    return f"{parameter_words(key, p)} = {fmt(v)}" + (f" {unit_text(p.unit)}" if p.unit else "")

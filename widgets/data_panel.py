@@ -9,12 +9,12 @@ the panel together with the text of the line it refers to.
 from __future__ import annotations
 
 import re
-from typing import Callable
+from collections.abc import Callable
 
 import ipywidgets as ipw
 
-from kinetic.errors import DataError, KineticError
-
+from . import _engine
+from ._engine import DataError, KineticError
 from .style import css, fmt
 
 __all__ = ["DataPanel", "demo_choices", "describe_dataset"]
@@ -27,10 +27,7 @@ def demo_choices() -> dict:
 
     Taken from :mod:`kinetic.demo` (invented, synthetic data).
     """
-    try:
-        from kinetic import demo
-    except ImportError:
-        return {}
+    demo = _engine.demo
     out = {}
     if hasattr(demo, "demo_dataset"):
         out["demo sample (invented data)"] = demo.demo_dataset
@@ -88,13 +85,13 @@ class DataPanel(ipw.VBox):
         self._messages = messages
         self.loader_options = dict(loader_options or {})
         self.upload = ipw.FileUpload(accept=".csv,.tsv,.txt,.dat", multiple=False,
-                                     description="Upload a table", layout=ipw.Layout(width="12em"))
+                                     description="Upload a table", layout=ipw.Layout(width="auto"))
         self.upload.add_class(css("upload"))
         self._demos = demo_choices()
         self.demo_choice = ipw.Dropdown(options=list(self._demos) or ["(no demo data available)"],
                                         layout=ipw.Layout(width="17em"))
         self.use_demo = ipw.Button(description="Use demo data", disabled=not self._demos,
-                                   layout=ipw.Layout(width="9em"))
+                                   layout=ipw.Layout(width="auto"))
         self.use_demo.add_class(css("use-demo"))
         self.summary = ipw.HTML()
         self.summary.add_class(css("data-summary"))
@@ -120,10 +117,8 @@ class DataPanel(ipw.VBox):
         Returns the Dataset, or None when the loader refused it (the message is
         shown and the previous data are kept).
         """
-        from kinetic.data import parse_data
-
         try:
-            ds = parse_data(bytes(content), name=name, **self.loader_options)
+            ds = _engine.parse_data(bytes(content), name=name, **self.loader_options)
         except KineticError as exc:
             self._refused(exc, bytes(content))
             return None

@@ -15,8 +15,7 @@ import traceback
 
 import ipywidgets as ipw
 
-from kinetic.errors import KineticError
-
+from ._engine import KineticError
 from .style import css
 
 __all__ = ["MessageBoard", "plain_message"]
@@ -45,9 +44,9 @@ class MessageBoard:
         Tracebacks of unexpected exceptions (not user mistakes).
     """
 
-    def __init__(self, keep: int = 4):
+    def __init__(self, keep: int = 3):
         self.keep = int(keep)
-        self.output = ipw.Output(layout=ipw.Layout(min_height="1.6em", max_height="9em",
+        self.output = ipw.Output(layout=ipw.Layout(min_height="1.6em", max_height="5em",
                                                    overflow="auto"))
         self.output.add_class(css("messages"))
         self.messages: list = []

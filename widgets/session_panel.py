@@ -1,11 +1,11 @@
-"""Save and export: the session as a fit record, figures as PNG, tables as CSV.
+"""Save and export: the session as a fit record, figures as PNG (300 dpi) / SVG / PDF, curves as CSV.
 
-A session is saved as a fit record (:func:`kinetic.records.save_record`): the
-data, the fitted model, the fitted values with their uncertainties and the fit
-options. Loading a record (:func:`kinetic.records.load_record`) puts its data
-and fitted model back into the workbench. Every file is written atomically
-(a temporary file in the same folder, then renamed), so an interrupted save
-never leaves half a file.
+A session is saved as a fit record (:func:`kinetic.save_record`): exactly the
+fit the results table shows, and only while it is current (a stale fit must be
+refit first). Loading a record (:func:`kinetic.load_record`) puts its data,
+fitted model and results back. File names follow the figure and the sample
+(``kappa_T-sample_A.png``); every file is written atomically by the engine's
+helper, with the permissions the user's umask gives.
 """
 from __future__ import annotations
 
@@ -14,22 +14,21 @@ import io
 import os
 from pathlib import Path
 
-import numpy as np
 import ipywidgets as ipw
+import numpy as np
 
-from kinetic.errors import FitError, ParameterError
-
+from . import _engine
+from ._engine import FitError, ParameterError
+from .figures import EXPORT_FORMATS, _slug, curves_csv
 from .fit_panel import result_rows
-from .style import css
+from .style import css, esc
 
 __all__ = ["SessionPanel", "table_csv", "write_text_atomic"]
 
 
 def write_text_atomic(path, text: str) -> Path:
-    """Write text atomically (temporary file in the same folder, then ``os.replace``)."""
-    from kinetic.records import atomic_write_text
-
-    return atomic_write_text(path, text)
+    """Write text atomically (the engine's helper); returns the path."""
+    return Path(_engine.atomic_write(path, text))
 
 
 def table_csv(header, rows) -> str:
@@ -43,130 +42,158 @@ def table_csv(header, rows) -> str:
 
 
 class SessionPanel(ipw.VBox):
-    """Save or load the session (fit record); export a figure (PNG) or a table (CSV).
+    """Save or load the session (fit record); export a figure and its curves, or a table.
 
     Attributes
     ----------
+    folder : ipw.Text
+        Folder the files go to.
     record_path : ipw.Text
     save_button, load_button : ipw.Button
-    figure_choice : ipw.Dropdown
-    figure_path : ipw.Text
-    export_figure_button : ipw.Button
+    figure_choice, format_choice : ipw.Dropdown
+    export_figure_button, export_curves_button : ipw.Button
     table_choice : ipw.Dropdown
-    table_path : ipw.Text
     export_table_button : ipw.Button
     status : ipw.HTML
-        What was written or read (CSS ``kinetic-session-status``).
     """
 
     def __init__(self, workbench):
         self.wb = workbench
         g = workbench.messages.guard
-        wide = ipw.Layout(width="26em")
-        self.record_path = ipw.Text(value="fit_record.json", description="record file",
-                                    style={"description_width": "7em"}, layout=wide)
-        self.save_button = ipw.Button(description="Save the fit", icon="save", layout=ipw.Layout(width="10em"))
-        self.load_button = ipw.Button(description="Load a record", icon="folder-open",
-                                      layout=ipw.Layout(width="10em"))
+        lab = {"style": {"description_width": "6em"}}
+        self.folder = ipw.Text(value=".", description="folder", layout=ipw.Layout(width="24em"), **lab)
+        self.record_path = ipw.Text(value="", description="record file", layout=ipw.Layout(width="24em"), **lab)
+        self.save_button = ipw.Button(description="Save the fit", icon="save", layout=ipw.Layout(width="auto"))
+        self.load_button = ipw.Button(description="Load a record", icon="folder-open", layout=ipw.Layout(width="auto"))
         self.save_button.add_class(css("save-record"))
         self.load_button.add_class(css("load-record"))
         self.save_button.on_click(g(lambda _b: self.save_record()))
         self.load_button.on_click(g(lambda _b: self.load_record()))
-        self.figure_choice = ipw.Dropdown(options=self._figure_options(), description="figure",
-                                          style={"description_width": "7em"}, layout=ipw.Layout(width="20em"))
-        self.figure_path = ipw.Text(value="kappa_T.png", description="PNG file",
-                                    style={"description_width": "7em"}, layout=wide)
-        self.export_figure_button = ipw.Button(description="Export figure", icon="image",
-                                               layout=ipw.Layout(width="10em"))
+        self.figure_choice = ipw.Dropdown(options=[], description="figure", layout=ipw.Layout(width="24em"), **lab)
+        self.figure_choice.add_class(css("export-which"))
+        self.format_choice = ipw.Dropdown(options=[("PNG, 300 dpi", "png"), ("SVG", "svg"), ("PDF", "pdf")],
+                                          description="format", layout=ipw.Layout(width="14em"), **lab)
+        self.format_choice.add_class(css("export-format"))
+        self.export_figure_button = ipw.Button(description="Export figure", icon="image", layout=ipw.Layout(width="auto"))
         self.export_figure_button.add_class(css("export-figure"))
         self.export_figure_button.on_click(g(lambda _b: self.export_figure()))
+        self.export_curves_button = ipw.Button(description="Export its curves (CSV)", icon="table",
+                                               layout=ipw.Layout(width="auto"))
+        self.export_curves_button.add_class(css("export-curves"))
+        self.export_curves_button.on_click(g(lambda _b: self.export_curves()))
         self.table_choice = ipw.Dropdown(options=[("model \u03ba(T) curve", "model"),
                                                   ("data and model at the measured temperatures", "data"),
-                                                  ("fitted parameters", "fit"),
-                                                  ("grain-size study", "grain"),
-                                                  ("alloy study", "alloy"),
-                                                  ("zT study", "zt")],
-                                         description="table", style={"description_width": "7em"},
-                                         layout=ipw.Layout(width="26em"))
-        self.table_path = ipw.Text(value="kappa_T.csv", description="CSV file",
-                                   style={"description_width": "7em"}, layout=wide)
-        self.export_table_button = ipw.Button(description="Export table", icon="table",
-                                              layout=ipw.Layout(width="10em"))
+                                                  ("fitted parameters", "fit"), ("grain-size study", "grain"),
+                                                  ("alloy study", "alloy"), ("zT study", "zt")],
+                                         description="table", layout=ipw.Layout(width="24em"), **lab)
+        self.export_table_button = ipw.Button(description="Export table (CSV)", icon="table",
+                                              layout=ipw.Layout(width="auto"))
         self.export_table_button.add_class(css("export-table"))
         self.export_table_button.on_click(g(lambda _b: self.export_table()))
         self.status = ipw.HTML()
         self.status.add_class(css("session-status"))
         super().__init__([
-            ipw.HTML("<b>Session</b>: the last fit with its data and model, as a JSON fit record."),
-            ipw.HBox([self.record_path, self.save_button, self.load_button]),
-            ipw.HTML("<b>Export</b>"),
-            ipw.HBox([self.figure_choice]), ipw.HBox([self.figure_path, self.export_figure_button]),
-            ipw.HBox([self.table_choice]), ipw.HBox([self.table_path, self.export_table_button]),
-            self.status])
+            ipw.HTML("<b>Session</b>: the fit in the table, with its data and model, as a JSON fit record."),
+            self.folder, self.record_path, ipw.HBox([self.save_button, self.load_button]),
+            ipw.HTML("<b>Export</b>: file names follow the figure and the sample."),
+            self.figure_choice, self.format_choice,
+            ipw.HBox([self.export_figure_button, self.export_curves_button], layout=ipw.Layout(flex_flow="row wrap")),
+            self.table_choice, self.export_table_button, self.status])
         self.add_class(css("session-panel"))
 
-    def _figure_options(self):
-        opts = [("\u03ba(T)", "conductivity"), ("scattering rates", "rates"), ("spectrum", "spectrum"),
-                ("mean free path", "mfp")]
-        opts += [("what-if: grain size", "grain"), ("what-if: alloying", "alloy"),
-                 ("what-if: map", "map"), ("what-if: zT", "zt")]
-        return opts
+    # --- state --------------------------------------------------------------------------
+    def _sample(self) -> str:
+        ds = self.wb.data
+        return (getattr(ds, "label", "") or "") if ds is not None else ""
+
+    def inputs_changed(self):
+        """Follow the workbench: figures on offer, the record's name, Save only for a current fit."""
+        opts = list(self.wb.figure_choice.options)
+        if list(self.figure_choice.options) != opts:
+            self.figure_choice.options = opts
+        if self.figure_choice.value is None or self.figure_choice.value not in dict(opts).values():
+            self.figure_choice.value = self.wb.figure_choice.value
+        self.save_button.disabled = not isinstance(self.wb.state.current_fit, _engine.FitResult)
+        name = "fit-" + (_slug(self._sample()) or "sample") + ".json"
+        if self.record_path.value in ("",) or self.record_path.value.startswith("fit-"):
+            self.record_path.value = name
+
+    def _path(self, name) -> Path:
+        return Path(self.folder.value.strip() or ".") / name
 
     def _say(self, text: str):
-        self.status.value = text
+        self.status.value = esc(text)
         self.wb.messages.info(text)
 
-    # --- records --------------------------------------------------------------------
+    # --- records --------------------------------------------------------------------------
     def save_record(self, path=None) -> Path:
-        """Save the last fit (data, fitted model, values, uncertainties) as a JSON record."""
-        from kinetic.fitting import FitResult
-        from kinetic.records import save_record
-
-        res = self.wb.result
-        if res is None:
+        """Save the fit the table shows (only when current) as a JSON record."""
+        state = self.wb.state
+        if state.fit is None:
             raise FitError("nothing to save yet: a record holds a fit, so run a fit first")
-        if not isinstance(res, FitResult):
-            raise FitError(f"this fit was loaded from the record {getattr(res, 'path', '')}, where it is "
-                           "already saved; refit to save a new record")
-        path = Path(path if path is not None else self.record_path.value.strip() or "fit_record.json")
-        src = self.wb.data.source if self.wb.data is not None else None
-        out = save_record(path, res, data_path=src if src and os.path.isfile(src) else None)
-        self._say(f"Saved the fit record to {out.resolve()}.")
-        return out
+        res = state.current_fit
+        if res is None:
+            raise FitError("the fit in the table is stale (its data or model changed); press Fit to refresh "
+                           "it before saving")
+        if not isinstance(res, _engine.FitResult):
+            raise FitError(f"this fit was loaded from the record {getattr(res, 'path', '')}, where it is already "
+                           "saved; refit to save a new record")
+        path = Path(path) if path is not None else self._path(self.record_path.value.strip() or "fit.json")
+        src = res.data.source if res.data is not None else None
+        out = _engine.save_record(path, res, data_path=src if src and os.path.isfile(src) else None)
+        self._say(f"Saved the fit record to {Path(out).resolve()}.")
+        return Path(out)
 
     def load_record(self, path=None):
         """Load a record: its data, fitted model and fit results replace the session's."""
-        from kinetic.records import load_record
-
-        path = Path(path if path is not None else self.record_path.value.strip())
-        rec = load_record(path)
+        path = Path(path) if path is not None else self._path(self.record_path.value.strip())
+        rec = _engine.load_record(path)
         self.wb.load_record(rec)
         changed = rec.data_changed()
         extra = f" Note: the data file of {', '.join(changed)} changed since the fit." if changed else ""
         self._say(f"Loaded the fit record {path.resolve()}.{extra}")
         return rec
 
-    # --- exports --------------------------------------------------------------------
+    # --- exports ----------------------------------------------------------------------------
     def _plot(self, which):
         if which in self.wb.plots:
             self.wb.update_plot(which)
             return self.wb.plots[which]
-        panel = getattr(self.wb, "whatif_panel", None)
-        if panel is not None and which in panel.plots:
+        panel = self.wb.whatif_panel
+        if which in panel.plots:
             if which not in panel.last:
-                raise ParameterError(f"the what-if '{which}' study has not been computed yet; press "
-                                     "'Update what-ifs' first")
+                raise ParameterError(f"the what-if study '{panel.TITLES[which]}' has not been computed yet; "
+                                     "press 'Update what-ifs' first")
             return panel.plots[which]
         raise ParameterError(f"unknown figure {which!r}")
 
-    def export_figure(self, which=None, path=None) -> Path:
-        """Write a figure as PNG (atomically). Returns the path."""
+    def figure_name(self, which=None, fmt=None) -> str:
+        """File name of a figure export: the figure's name and the sample's."""
         which = which or self.figure_choice.value
-        path = Path(path if path is not None else self.figure_path.value.strip() or f"{which}.png")
-        if path.suffix.lower() != ".png":
-            raise ParameterError(f"figure file {str(path)!r}: expected a name ending in .png")
+        return self._plot(which).export_name(self._sample(), fmt or self.format_choice.value)
+
+    def export_figure(self, which=None, path=None, fmt=None) -> Path:
+        """Write a figure as PNG (300 dpi), SVG or PDF (atomically). Returns the path."""
+        which = which or self.figure_choice.value
+        fmt = fmt or (Path(path).suffix.lstrip(".").lower() if path is not None else self.format_choice.value)
+        if fmt not in EXPORT_FORMATS:
+            raise ParameterError(f"figure file {str(path)!r}: expected a name ending in "
+                                 f"{', '.join('.' + f for f in EXPORT_FORMATS)}")
+        path = Path(path) if path is not None else self._path(self.figure_name(which, fmt))
         out = Path(self._plot(which).save(path))
         self._say(f"Saved the figure to {out.resolve()}.")
+        return out
+
+    def export_curves(self, which=None, path=None) -> Path:
+        """Write every curve plotted in a figure as CSV. Returns the path."""
+        which = which or self.figure_choice.value
+        plot = self._plot(which)
+        curves = plot.curves()
+        if not curves:
+            raise ParameterError("this figure has no curves to export yet")
+        path = Path(path) if path is not None else self._path(plot.export_name(self._sample(), "csv"))
+        out = write_text_atomic(path, curves_csv(curves))
+        self._say(f"Saved {len(curves)} curve(s) to {out.resolve()}.")
         return out
 
     def table(self, which: str):
@@ -174,10 +201,9 @@ class SessionPanel(ipw.VBox):
         wb = self.wb
         if which == "model":
             T = wb.temperatures
-            k = wb.model.kappa(T)
-            floor = wb.floor(T)
             header = ["T [K]", "kappa_lattice_model [W/(m K)]"]
-            cols = [T, k]
+            cols = [T, wb.parts(T).lattice]
+            floor = wb.floor(T)
             if floor is not None:
                 header.append("kappa_min_cahill [W/(m K)]")
                 cols.append(floor)
@@ -195,25 +221,24 @@ class SessionPanel(ipw.VBox):
             el = wb.electronic()
             if el is not None:
                 # points where the subtraction left kappa_lattice <= 0 are not used: nan there
-                ke = np.full(T.shape, np.nan)
-                kl = np.full(T.shape, np.nan)
-                ke[el.kept] = el.kappa_electronic
-                kl[el.kept] = el.kappa
+                ke, kl = np.full(T.shape, np.nan), np.full(T.shape, np.nan)
+                ke[el[3]], kl[el[3]] = el[1], el[2]
                 header += ["kappa_electronic [W/(m K)]", "kappa_lattice_measured [W/(m K)]"]
                 cols += [ke, kl]
             header.append("kappa_lattice_model [W/(m K)]")
-            cols.append(wb.model.kappa(T))
+            cols.append(wb.parts(T).lattice)
             return header, list(zip(*[np.asarray(c, float) for c in cols]))
         if which == "fit":
-            if wb.result is None:
-                raise FitError("no fit yet; run a fit first")
-            header = ["parameter", "value", "stderr", "lower_95", "upper_95", "unit", "flag"]
-            return header, [[r["name"], r["value"], r["stderr"], r["lower"], r["upper"], r["unit"], r["flag"]]
-                            for r in result_rows(wb.result)]
-        panel = getattr(wb, "whatif_panel", None)
-        last = panel.last if panel is not None else {}
+            res = wb.state.current_fit
+            if res is None:
+                raise FitError("no current fit; run a fit first" if wb.state.fit is None
+                               else "the fit is stale; press Fit to refresh it first")
+            header = ["parameter", "key", "value", "stderr", "lower_95", "upper_95", "unit", "flag"]
+            return header, [[r["label"], r["key"], r["value"], r["stderr"], r["lower"], r["upper"], r["unit"],
+                             r["flag"]] for r in result_rows(res)]
+        last = wb.whatif_panel.last
         if which not in last:
-            raise ParameterError(f"the what-if '{which}' study has not been computed yet; press "
+            raise ParameterError(f"the what-if study '{which}' has not been computed yet; press "
                                  "'Update what-ifs' first")
         r = last[which]
         if which == "grain":
@@ -234,7 +259,9 @@ class SessionPanel(ipw.VBox):
     def export_table(self, which=None, path=None) -> Path:
         """Write a table as CSV (atomically). Returns the path."""
         which = which or self.table_choice.value
-        path = Path(path if path is not None else self.table_path.value.strip() or f"{which}.csv")
+        if path is None:
+            path = self._path("-".join(p for p in (f"table_{which}", _slug(self._sample())) if p) + ".csv")
+        path = Path(path)
         if path.suffix.lower() != ".csv":
             raise ParameterError(f"table file {str(path)!r}: expected a name ending in .csv")
         header, rows = self.table(which)
@@ -244,3 +271,4 @@ class SessionPanel(ipw.VBox):
 
     def close_all(self):
         self.close()
+

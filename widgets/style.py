@@ -7,31 +7,27 @@ and the what-if plots. No physics: only names, colours and text formatting.
 from __future__ import annotations
 
 import math
+import re
+
+from . import _engine
 
 __all__ = [
-    "MECHANISM_COLOURS",
-    "PART_COLOURS",
     "BRANCH_STYLES",
+    "MECHANISM_COLOURS",
     "MECHANISM_TITLES",
-    "mechanism_colour",
-    "mechanism_title",
+    "PART_COLOURS",
     "branch_style",
+    "css",
     "fmt",
     "fmt_value",
-    "css",
+    "label_html",
+    "mechanism_colour",
+    "mechanism_title",
+    "unit_text",
 ]
 
-#: mechanism kind (``Mechanism.kind``) -> colour, used in every plot and table.
-MECHANISM_COLOURS = {
-    "boundary": "#1f77b4",        # blue
-    "point_defect": "#2ca02c",    # green
-    "umklapp": "#d62728",         # red
-    "normal": "#9467bd",          # purple
-    "electron_phonon": "#8c564b",  # brown
-    "dislocation": "#e377c2",     # pink
-    "precipitate": "#17becf",     # teal
-}
-_SPARE = ("#bcbd22", "#7f7f7f", "#ff9896", "#aec7e8")
+#: mechanism kind (``Mechanism.kind``) -> colour, used in every plot and table (the engine's colours).
+MECHANISM_COLOURS = {k: _engine.mechanism_colour(k) for k in _engine.MECHANISMS}
 
 #: parts of the thermal conductivity in the k(T) plot.
 PART_COLOURS = {
@@ -48,30 +44,20 @@ PART_COLOURS = {
 #: branch name -> line style (rates, spectra).
 BRANCH_STYLES = {"avg": "-", "L": "-", "T": "--"}
 
-#: mechanism kind -> plain-word title for panels and legends.
-MECHANISM_TITLES = {
-    "boundary": "Boundaries (grain size)",
-    "point_defect": "Point defects (mass disorder)",
-    "umklapp": "Umklapp (anharmonic)",
-    "normal": "Normal processes",
-    "electron_phonon": "Free carriers",
-    "dislocation": "Dislocations",
-    "precipitate": "Nanoprecipitates",
-}
+#: mechanism kind -> plain-word title for panels and legends (the engine's labels).
+MECHANISM_TITLES = {k: _engine.mechanism_label(k) for k in _engine.MECHANISMS}
 
 _BRANCH_TITLES = {"avg": "averaged", "L": "longitudinal", "T": "transverse"}
 
 
 def mechanism_colour(kind: str) -> str:
     """Colour of a mechanism kind; unknown kinds get a stable spare colour."""
-    if kind in MECHANISM_COLOURS:
-        return MECHANISM_COLOURS[kind]
-    return _SPARE[sum(map(ord, str(kind))) % len(_SPARE)]
+    return _engine.mechanism_colour(kind)
 
 
 def mechanism_title(kind: str, name: str | None = None) -> str:
     """Plain title; a renamed mechanism (e.g. ``umklapp_L``) shows its name too."""
-    base = MECHANISM_TITLES.get(kind, str(kind).replace("_", " "))
+    base = _engine.mechanism_label(kind)
     if name is not None and name != kind:
         return f"{base}: {name}"
     return base
@@ -112,3 +98,27 @@ def fmt_value(value, unit: str = "", digits: int = 4) -> str:
 def css(name: str) -> str:
     """Stable CSS class for browser tests and styling: ``kinetic-<name>``."""
     return f"kinetic-{name}"
+
+
+_SUP = str.maketrans("-0123456789", "\u207b\u2070\u00b9\u00b2\u00b3\u2074\u2075\u2076\u2077\u2078\u2079")
+
+
+def unit_text(unit: str) -> str:
+    """A unit in the one notation of the workbench, superscripts: ``"W m^-1 K^-1"`` -> ``"W m⁻¹ K⁻¹"``."""
+    if not unit:
+        return ""
+    return re.sub(r"\^(-?\d+)", lambda m: m.group(1).translate(_SUP), str(unit))
+
+
+def esc(text) -> str:
+    """Text made safe for HTML."""
+    return (str(text).replace("&", "&amp;").replace("<", "&lt;").replace(">", "&gt;")
+            .replace("'", "&#39;").replace('"', "&quot;"))
+
+
+def label_html(words: str, unit: str = "", key: str = "") -> str:
+    """A label in plain words with its unit; the code key in a tooltip."""
+    u = unit_text(unit)
+    text = esc(words) + (f" [{esc(u)}]" if u else "")
+    tip = f" title='{esc(key)}'" if key else ""
+    return f"<span{tip}>{text}</span>"

@@ -1,25 +1,33 @@
 """What-if area: conductivity against grain size and alloy fraction, their 2-D map, and zT against doping.
 
-All numbers come from :mod:`kinetic.whatif` (sweeps, the grain x alloy map,
-the single-band zT sweep) and :mod:`kinetic.fitting` (bands). The sweeps use
-the model in use and the chosen temperature of the workbench; with a fit, the
-grain-size curve and the zT curve carry the fit's 95% band.
+All numbers come from the engine's what-if functions (through
+:mod:`widgets._engine`). The studies use the model in use and the chosen
+temperature; with a current fit, the grain-size and zT curves carry its 95%
+band. "Update what-ifs" computes them in a background thread, step by step
+with a progress bar, and Cancel stops between steps. Results remember what
+they were computed from (the state's versions) and are marked stale when the
+model, the fit or the study settings changed.
 """
 from __future__ import annotations
 
-import numpy as np
+import dataclasses
+import threading
+
 import ipywidgets as ipw
+import numpy as np
 
-from kinetic import materials as _materials
-from kinetic.errors import ParameterError
-
-from .plots import CurvesPlot, MapPlot
-from .style import PART_COLOURS, css, fmt, mechanism_colour
+from . import _engine
+from .style import PART_COLOURS, css, esc, fmt, mechanism_colour
+from .whatif_plots import CurvesPlot, MapPlot
 
 __all__ = ["WhatIfPanel"]
 
 _W = "W m\u207b\u00b9 K\u207b\u00b9"
-NO_PARTNER = "(choose a partner)"
+NO_PARTNER = "(none)"
+
+
+class _Cancelled(Exception):
+    pass
 
 
 class WhatIfPanel(ipw.VBox):
@@ -29,140 +37,255 @@ class WhatIfPanel(ipw.VBox):
     ----------
     partner : ipw.Dropdown
         Second end member B of the alloy A(1-x)B(x) (A is the workbench's material).
-    strain : ipw.FloatText
-        Abeles' strain parameter epsilon for the alloy Gamma.
+    strain : ipw.BoundedFloatText
+        Abeles' strain parameter epsilon for the alloy's disorder.
     keep_gamma : ipw.Checkbox
-        Keep the sample's own point-defect Gamma on top of the alloy's.
-    mobility : ipw.FloatText
+    mobility : ipw.BoundedFloatText
         Weighted mobility [cm^2/(V s)] for zT when the data have no (rho, S) pair.
-    update_button : ipw.Button
+    update_button, cancel_button : ipw.Button
+    progress : ipw.IntProgress
     plots : dict
         "grain", "alloy", "map", "zt" -> plot.
     last : dict
-        The latest whatif results ("grain", "alloy", "map", "zt").
+        The latest results ("grain", "alloy", "map", "zt").
     """
+
+    TITLES = {"grain": "grain size", "alloy": "alloying", "map": "grain size and alloying map",
+              "zt": "doping and zT"}
 
     def __init__(self, workbench):
         self.wb = workbench
+        self.state = workbench.state
         g = workbench.messages.guard
         self.last: dict = {}
-        names = _materials.names()
-        host = workbench.material.name if workbench.material is not None else None
-        partners = [NO_PARTNER] + [n for n in names if n != host]
-        usual = {"Si": "Ge", "Ge": "Si"}  # the classic pair; other hosts wait for the user's choice
-        default = usual.get(host) if usual.get(host) in partners else NO_PARTNER
-        self.partner = ipw.Dropdown(options=partners, value=default, description="alloy with",
-                                    style={"description_width": "6em"}, layout=ipw.Layout(width="16em"))
+        self._thread = None
+        self._stop = threading.Event()
+        self._shown_stale = None
+        self.partner = ipw.Dropdown(options=[NO_PARTNER], value=NO_PARTNER, description="alloy with B =",
+                                    style={"description_width": "initial"}, layout=ipw.Layout(width="17em"),
+                                    tooltip="host_b: second end member of the alloy")
         self.partner.add_class(css("alloy-partner"))
-        self.strain = ipw.BoundedFloatText(value=0.0, min=0.0, max=500.0, description="strain \u03b5",
-                                           style={"description_width": "5em"}, layout=ipw.Layout(width="11em"))
-        self.keep_gamma = ipw.Checkbox(value=True, indent=False,
+        self.strain = ipw.BoundedFloatText(value=0.0, min=0.0, max=500.0, layout=ipw.Layout(width="6em"),
+                                           tooltip="strain_epsilon (Abeles 1963)")
+        self.strain.add_class(css("alloy-strain"))
+        strain_label = ipw.HTML("<span title='strain_epsilon'>lattice-strain weight \u03b5 (Abeles)</span>")
+        self.keep_gamma = ipw.Checkbox(value=True, indent=False, layout=ipw.Layout(width="auto"),
                                        description="keep the sample's own point defects")
-        self.mobility = ipw.BoundedFloatText(value=100.0, min=1e-3, max=1e5,
-                                             description="weighted mobility [cm\u00b2/(V s)]",
-                                             style={"description_width": "16em"}, layout=ipw.Layout(width="24em"))
+        self.mobility = ipw.BoundedFloatText(value=100.0, min=1e-3, max=1e5, layout=ipw.Layout(width="7em"),
+                                             tooltip="weighted_mobility")
+        mobility_label = ipw.HTML("<span title='weighted_mobility'>weighted mobility for zT "
+                                  "[cm\u00b2 V\u207b\u00b9 s\u207b\u00b9]</span>")
         self.update_button = ipw.Button(description="Update what-ifs", button_style="primary", icon="refresh",
-                                        layout=ipw.Layout(width="12em"))
+                                        layout=ipw.Layout(width="auto"))
         self.update_button.add_class(css("whatif-update"))
-        self.update_button.on_click(g(lambda _b: self.update()))
+        self.update_button.on_click(g(lambda _b: self.start()))
+        self.cancel_button = ipw.Button(description="Cancel", icon="stop", disabled=True,
+                                        layout=ipw.Layout(width="auto"))
+        self.cancel_button.add_class(css("whatif-cancel"))
+        self.cancel_button.on_click(g(lambda _b: self.cancel()))
+        self.progress = ipw.IntProgress(value=0, min=0, max=1, layout=ipw.Layout(width="10em"))
+        self.progress.add_class(css("whatif-progress"))
         self.status = ipw.HTML("Press <b>Update what-ifs</b> to compute the studies with the model in use.")
         self.status.add_class(css("whatif-status"))
+        self.show_buttons = ipw.ToggleButtons(options=[(t, k) for k, t in self.TITLES.items()], value=None,
+                                              style={"button_width": "auto"}, tooltips=[
+                                                  "show this study in the figure" for _ in self.TITLES])
+        self.show_buttons.add_class(css("whatif-show"))
+        self.show_buttons.observe(g(lambda ch: ch["new"] and self.wb.show_figure(ch["new"])), names="value")
         self.plots = {
-            "grain": CurvesPlot("whatif-grain", "grain size (boundary length) L [m]", f"\u03ba lattice [{_W}]",
-                                "Grain size", xlog=True, ylog=True),
-            "alloy": CurvesPlot("whatif-alloy", "alloy fraction x of B", f"\u03ba lattice [{_W}]",
-                                "Alloying", ylog=True),
-            "map": MapPlot("whatif-map", "grain size L [m]", "alloy fraction x of B",
-                           f"log\u2081\u2080 \u03ba lattice [{_W}]", "Grain size and alloying", xlog=True),
+            "grain": CurvesPlot("whatif-grain", "grain size (boundary length) L [m]",
+                                f"lattice \u03ba [{_W}]", "Grain size", xlog=True, ylog=True),
+            "alloy": CurvesPlot("whatif-alloy", "alloy fraction x", f"lattice \u03ba [{_W}]", "Alloying",
+                                ylog=True),
+            "map": MapPlot("whatif-map", "grain size L [m]", "alloy fraction x",
+                           f"log\u2081\u2080 lattice \u03ba [{_W}]", "Grain size and alloying", xlog=True),
             "zt": CurvesPlot("whatif-zt", "reduced Fermi level \u03b7 (doping)", "zT", "Doping and zT"),
         }
-        grid = ipw.GridBox([p.widget for p in self.plots.values()],
-                           layout=ipw.Layout(grid_template_columns="repeat(2, max-content)", grid_gap="4px 8px"))
-        controls = ipw.HBox([self.partner, self.strain, self.keep_gamma],
-                            layout=ipw.Layout(flex_flow="row wrap"))
-        super().__init__([controls, ipw.HBox([self.mobility, self.update_button]), self.status, grid])
+        super().__init__([
+            ipw.HBox([self.partner, self.keep_gamma], layout=ipw.Layout(flex_flow="row wrap")),
+            ipw.HBox([strain_label, self.strain]), ipw.HBox([mobility_label, self.mobility]),
+            ipw.HBox([self.update_button, self.cancel_button, self.progress], layout=ipw.Layout(flex_flow="row wrap")),
+            self.status, ipw.HTML("show in the figure:"), self.show_buttons])
         self.add_class(css("whatif-panel"))
-        self._stale = True
-        self._computed_for = None
+        self.material_changed()
 
-    def _signature(self):
-        """What the studies depend on: the model in use, the temperature, the fit."""
-        wb = self.wb
-        return (repr(wb.model.to_dict()), float(wb.temperature.value), id(wb.result))
+    # --- choices -----------------------------------------------------------------------
+    def material_changed(self):
+        """Offer every other preset as partner B (Si and Ge pair up by default)."""
+        mat = self.wb.material
+        host = mat.name if mat is not None else None
+        partners = [NO_PARTNER] + [n for n in _engine.material_names() if n != host]
+        usual = {"Si": "Ge", "Ge": "Si"}.get(host)
+        keep = self.partner.value if self.partner.value in partners and self.partner.value != NO_PARTNER else None
+        self.partner.options = partners
+        self.partner.value = keep or (usual if usual in partners else NO_PARTNER)
 
-    def model_changed(self):
-        """The workbench's model changed: mark the studies out of date (computing waits for the button)."""
-        if self.last and not self._stale and self._signature() != self._computed_for:
-            self.status.value = ("The model changed since the studies were computed; press "
-                                 "<b>Update what-ifs</b>.")
-            self._stale = True
+    def _settings(self) -> tuple:
+        return (float(self.wb.temperature.value), self.partner.value, float(self.strain.value),
+                bool(self.keep_gamma.value), float(self.mobility.value), self.wb.material_panel.split)
 
-    # --- computing ------------------------------------------------------------------
+    @property
+    def stale(self) -> bool:
+        return self.state.whatif_stale(self._settings())
+
+    def inputs_changed(self):
+        """Mark the studies stale when what they were computed from changed."""
+        if self.state.whatif is None:
+            return
+        stale = self.stale
+        if stale == self._shown_stale:
+            return
+        self._shown_stale = stale
+        if stale:
+            self.status.value = ("<span class='kinetic-stale-note' style='color:#8a4b00'><b>Stale</b>: the model, "
+                                 "the fit or the settings changed since these studies were computed; press "
+                                 "<b>Update what-ifs</b>.</span>")
+            for p in self.plots.values():
+                t = p.title.get_text()
+                if not t.startswith("[stale] "):
+                    p.title.set_text("[stale] " + t)
+                    p.redraw()
+
+    # --- computing ------------------------------------------------------------------------
+    @property
+    def running(self) -> bool:
+        return self._thread is not None and self._thread.is_alive()
+
+    def start(self):
+        """Compute in a background thread with progress; Cancel stops between steps."""
+        if self.running:
+            raise _engine.ParameterError("the what-if studies are already being computed; wait or press Cancel")
+        self._stop.clear()
+        self.update_button.disabled = True
+        self.cancel_button.disabled = False
+
+        def work():
+            try:
+                self.update()
+            except _Cancelled:
+                self.status.value = "Cancelled; the studies shown are those of the last complete update."
+                self.progress.bar_style = "warning"
+            except BaseException as exc:  # noqa: BLE001 - every background failure is shown
+                self.progress.bar_style = "danger"
+                self.status.value = (f"<span style='color:#b00020'><b>The what-if update failed</b>: "
+                                     f"{esc(' '.join(str(exc).split()))}</span>")
+                self.wb.messages.error(exc if isinstance(exc, Exception) else RuntimeError(str(exc)))
+            finally:
+                self.update_button.disabled = False
+                self.cancel_button.disabled = True
+
+        self._thread = threading.Thread(target=work, name="kinetic-whatif", daemon=True)
+        self._thread.start()
+        return self._thread
+
+    def join(self, timeout: float | None = None):
+        if self._thread is not None:
+            self._thread.join(timeout)
+
+    def cancel(self):
+        if self.running:
+            self._stop.set()
+            self.status.value = "Cancelling\u2026"
+
+    def _step(self, text: str):
+        if self._stop.is_set():
+            raise _Cancelled()
+        self.progress.value = min(self.progress.value + 1, self.progress.max)
+        self.status.value = f"Computing: {text}\u2026"
+
     def update(self):
-        """Compute and draw all four studies at the workbench's temperature."""
-        from kinetic import whatif
-
+        """Compute and draw all four studies at the workbench's temperature (blocking)."""
         wb = self.wb
+        settings = self._settings()
+        inputs = self.state.whatif_inputs(settings)
         model = wb.model
         T0 = float(wb.temperature.value)
-        result = wb.result if self._result_matches(model) else None
+        result = self.state.current_fit if self._result_matches(model) else None
         mat = wb.material
-        notes = []
+        partner = self.partner.value
+        strain = float(self.strain.value)
+        extra = self._own_gamma(model) if self.keep_gamma.value else 0.0
+        bname = next((m.name for m in model.scattering if m.kind == "boundary"), None)
+        fractions_map = np.linspace(0.0, 1.0, 21)
+        chunks = [fractions_map[i:i + 3] for i in range(0, len(fractions_map), 3)]
+        self.progress.max = 3 + len(chunks)
+        self.progress.value = 0
+        self.progress.bar_style = "info"
+        new, notes, draw = {}, [], []
 
-        # grain size
-        if any(m.kind == "boundary" for m in model.scattering):
-            bname = next(m.name for m in model.scattering if m.kind == "boundary")
+        self._step("grain size")
+        if bname is not None:
             lengths = np.geomspace(1e-8, 1e-2, 49)
             res_g = result if (result is not None and f"{bname}.length" in model.params) else None
-            sw = whatif.grain_size_sweep(model, lengths, T0, res_g, mechanism=bname)
-            self.last["grain"] = sw
+            sw = _engine.whatif.grain_size_sweep(model, lengths, T0, res_g, mechanism=bname)
+            new["grain"] = sw
             bands = {}
             if sw.lower is not None:
                 bands["last fit: 95% band"] = (lengths, sw.lower[:, 0], sw.upper[:, 0], PART_COLOURS["band"])
             L0 = float(model.params[f"{bname}.length"])
-            self.plots["grain"].update({"model": (lengths, sw.kappa[:, 0], PART_COLOURS["lattice"])}, bands,
-                                       title=f"Grain size at {fmt(T0)} K",
-                                       vlines={"grain size now": (L0, mechanism_colour("boundary"))})
+            draw.append(lambda: self.plots["grain"].update(
+                {"model": (lengths, sw.kappa[:, 0], PART_COLOURS["lattice"])}, bands,
+                title=f"Grain size at {fmt(T0)} K", vlines={"grain size now": (L0, mechanism_colour("boundary"))}))
         else:
             notes.append("no boundary mechanism is switched on, so there is no grain-size study")
 
-        # alloy
+        self._step("alloying")
         if mat is None:
             notes.append("the alloy studies need a material preset")
-        elif self.partner.value in (None, NO_PARTNER):
-            notes.append("choose an alloy partner above for the alloy studies")
+        elif partner in (None, NO_PARTNER):
+            notes.append("choose an alloy partner B above for the alloy studies")
         else:
             xs = np.linspace(0.0, 1.0, 41)
-            extra = self._own_gamma(model) if self.keep_gamma.value else 0.0
-            al = whatif.alloy_sweep(mat, self.partner.value, xs, T0, template=model,
-                                    strain_epsilon=float(self.strain.value), extra_gamma=extra)
-            self.last["alloy"] = al
-            self.plots["alloy"].update({f"{mat.name}(1-x){self.partner.value}(x)":
-                                        (xs, al.kappa[:, 0], mechanism_colour("point_defect"))},
-                                       title=f"Alloying at {fmt(T0)} K")
-            if any(m.kind == "boundary" for m in model.scattering):
-                lengths = np.geomspace(1e-8, 1e-3, 31)
-                mp = whatif.grain_alloy_map(model, lengths, np.linspace(0.0, 1.0, 21), T0, host_a=mat,
-                                            host_b=self.partner.value, strain_epsilon=float(self.strain.value),
-                                            extra_gamma=extra, mechanism=bname)
-                self.last["map"] = mp
-                self.plots["map"].update(lengths, mp.fractions, np.log10(mp.kappa),
-                                         title=f"{mat.name}(1-x){self.partner.value}(x) at {fmt(T0)} K")
+            al = _engine.whatif.alloy_sweep(mat, partner, xs, T0, template=model, strain_epsilon=strain,
+                                            extra_gamma=extra)
+            new["alloy"] = al
+            name = f"{mat.name}(1\u2212x){partner}(x)"
+            draw.append(lambda: self._draw_alloy(name, partner, xs, al, T0))
+            if bname is not None:
+                lengths_m = np.geomspace(1e-8, 1e-3, 31)
+                parts = []
+                for i, chunk in enumerate(chunks):
+                    self._step(f"map, fractions {chunk[0]:.2f}\u2013{chunk[-1]:.2f}")
+                    parts.append(_engine.whatif.grain_alloy_map(
+                        model, lengths_m, chunk, T0, host_a=mat, host_b=partner, strain_epsilon=strain,
+                        extra_gamma=extra, mechanism=bname))
+                mp = dataclasses.replace(parts[0], fractions=np.concatenate([p.fractions for p in parts]),
+                                         kappa=np.concatenate([p.kappa for p in parts], axis=0),
+                                         gamma=np.concatenate([p.gamma for p in parts]))
+                new["map"] = mp
+                draw.append(lambda: self._draw_map(name, partner, mp, T0))
 
-        # doping and zT
-        zt = self._zt(model, T0, result, notes)
+        self._step("doping and zT")
+        zt = self._zt(model, T0, result, notes, draw)
         if zt is not None:
-            self.last["zt"] = zt
-        self._stale = False
-        self._computed_for = self._signature()
-        done = "Computed with the model in use at " + f"{fmt(T0)} K" + (
-            " and the 95% band of the last fit." if result is not None else " (no fit yet, so no bands).")
-        self.status.value = done + ("<br><span style='color:#666'>" + "; ".join(notes) + ".</span>" if notes else "")
+            new["zt"] = zt
+        if self._stop.is_set():
+            raise _Cancelled()
+        for d in draw:
+            d()
+        self.last = new
+        self.state.set_whatif(new, inputs)
+        self._shown_stale = False
+        self.progress.value = self.progress.max
+        self.progress.bar_style = "success"
+        done = f"Computed with the model in use at {fmt(T0)} K" + (
+            " and the 95% band of the current fit." if result is not None else " (no current fit, so no bands).")
+        self.status.value = done + ("<br><span style='color:#666'>" + esc("; ".join(notes)) + ".</span>"
+                                    if notes else "")
         return self.last
 
+    def _draw_alloy(self, name, partner, xs, al, T0):
+        p = self.plots["alloy"]
+        p.ax.set_xlabel(f"alloy fraction x of {partner} in {name}")
+        p.update({name: (xs, al.kappa[:, 0], mechanism_colour("point_defect"))}, title=f"Alloying at {fmt(T0)} K")
+
+    def _draw_map(self, name, partner, mp, T0):
+        p = self.plots["map"]
+        p.ax.set_ylabel(f"fraction x of {partner}")
+        p.update(mp.lengths, mp.fractions, np.log10(mp.kappa), title=f"{name} at {fmt(T0)} K")
+
     def _result_matches(self, model) -> bool:
-        """The last fit belongs to this model's mechanisms (bands make sense)."""
-        res = self.wb.result
+        res = self.state.current_fit
         if res is None:
             return False
         try:
@@ -186,43 +309,40 @@ class WhatIfPanel(ipw.VBox):
             return None
         return float(np.interp(T0, T, ds.sigma)), float(np.interp(T0, T, ds.seebeck))
 
-    def _zt(self, model, T0, result, notes):
-        from kinetic import whatif
-
-        kl = float(model.kappa(T0))
+    def _zt(self, model, T0, result, notes, draw):
+        kl = float(self.wb.parts(np.array([T0])).lattice[0])
         pair = self._measured_pair(T0)
         if pair is not None:
             kw = {"sigma": pair[0], "seebeck": pair[1]}
-            how = "band model through the measured \u03c3 and S"
         else:
             kw = {"weighted_mobility": float(self.mobility.value) * 1e-4}  # cm^2/(V s) -> m^2/(V s)
-            how = f"band model with weighted mobility {fmt(self.mobility.value)} cm\u00b2/(V s)"
-            notes.append(f"zT from a {how} (the data have no resistivity and Seebeck at {fmt(T0)} K)")
+            notes.append(f"zT from the band model with weighted mobility {fmt(self.mobility.value)} "
+                         f"cm\u00b2 V\u207b\u00b9 s\u207b\u00b9 (the data have no resistivity and Seebeck "
+                         f"at {fmt(T0)} K)")
         try:
-            zt = whatif.zt_vs_fermi_level(T0, kl, **kw)
-        except ParameterError as exc:
+            zt = _engine.whatif.zt_vs_fermi_level(T0, kl, **kw)
+        except _engine.ParameterError as exc:
             notes.append(f"no zT study: {' '.join(str(exc).split())}")
             return None
-        curves = {"zT": (zt.eta, zt.zt, "#000000")}
         bands = {}
         if result is not None:
-            from kinetic.fitting import predict_band
-
             try:
-                b = predict_band(result, [T0])
-                lo = whatif.zt_vs_fermi_level(T0, float(b.upper[0]), eta=zt.eta, **kw)  # more kappa: less zT
-                hi = whatif.zt_vs_fermi_level(T0, float(b.lower[0]), eta=zt.eta, **kw)
+                b = _engine.predict_band(result, [T0])
+                lo = _engine.whatif.zt_vs_fermi_level(T0, float(b.upper[0]), eta=zt.eta, **kw)  # more kappa: less zT
+                hi = _engine.whatif.zt_vs_fermi_level(T0, float(b.lower[0]), eta=zt.eta, **kw)
                 bands["last fit: 95% band"] = (zt.eta, lo.zt, hi.zt, PART_COLOURS["band"])
             except Exception as exc:  # noqa: BLE001 - the curve stays useful without its band
                 notes.append(f"no zT band ({' '.join(str(exc).split())})")
         vlines = {"best doping": (zt.best_eta, "#2ca02c")}
         if zt.measured_eta is not None:
             vlines["this sample"] = (zt.measured_eta, "#d62728")
-        self.plots["zt"].update(curves, bands, title=f"zT at {fmt(T0)} K: best {zt.best_zt:.2f} at \u03b7 = "
-                                f"{zt.best_eta:.2f}", vlines=vlines)
+        draw.append(lambda: self.plots["zt"].update(
+            {"zT": (zt.eta, zt.zt, "#000000")}, bands,
+            title=f"zT at {fmt(T0)} K: best {zt.best_zt:.2f} at \u03b7 = {zt.best_eta:.2f}", vlines=vlines))
         return zt
 
     def close_all(self):
+        self._stop.set()
         for p in self.plots.values():
             p.close()
         self.close()

@@ -1,0 +1,128 @@
+"""What the workbench shows: the readouts at the chosen temperature and its four live plots.
+
+A mixin of :class:`~widgets.workbench.Workbench`: it asks the engine (through
+:mod:`widgets._engine`) for the numbers of the model in use and hands them to
+the plots and readouts. No physics of its own.
+"""
+from __future__ import annotations
+
+import numpy as np
+
+from . import _engine
+from .style import fmt
+
+__all__ = ["WorkbenchViews"]
+
+_W = "W m\u207b\u00b9 K\u207b\u00b9"
+
+
+class WorkbenchViews:
+    """Numbers for the views of a workbench (needs ``model``, ``data``, ``material``, ``temperature``...)."""
+
+    # --- numbers for the views --------------------------------------------------------------
+    @property
+    def temperatures(self) -> np.ndarray:
+        """Grid of the model curves [K]: the data's range widened, or 2-1000 K."""
+        ds = self.data
+        lo, hi = (2.0, 1000.0) if ds is None else (float(ds.temperature.min()) / 1.5,
+                                                   float(ds.temperature.max()) * 1.5)
+        return np.geomspace(max(lo, 0.5), hi, 140)
+
+    def electronic(self):
+        """``(T, kappa_electronic, kappa_lattice_measured, kept)`` of the data's split, or None."""
+        if "electronic" not in self._cache:
+            on = self.electronic_on.value
+            self._cache["electronic"] = _engine.electronic_split(self.data, self.lorenz_choice.value) if on else None
+        return self._cache["electronic"]
+
+    def floor(self, temperature):
+        """Cahill-Watson-Pohl minimum of the material [W/m/K], or None without a preset."""
+        if self.material is None:
+            return None
+        T = np.asarray(temperature, dtype=float)
+        cached = self._cache.setdefault("floor", {})
+        key = (self.material.name, T.shape, T.tobytes())
+        if key not in cached:
+            if len(cached) > 8:
+                cached.clear()
+            cached[key] = _engine.cahill_minimum(self.material, T)
+        return cached[key]
+
+    def parts(self, temperature):
+        """The engine's conductivity parts of the model in use (with the bipolar part if on)."""
+        return _engine.conductivity_parts(self.model, temperature, bipolar=self.electronic_panel.bipolar())
+
+    def _readouts(self):
+        T0 = float(self.temperature.value)
+        p = self.parts(np.array([T0]))
+        k0 = float(p.lattice[0])
+        el = self.electronic()
+        ke0 = None
+        if el is not None and el[0].min() <= T0 <= el[0].max():
+            ke0 = float(np.interp(T0, el[0], el[1]))  # between measured points, as plotted
+        kb0 = None if p.bipolar is None else float(p.bipolar[0])
+        r = self.readouts
+        r["temperature"].value = f"At <b>{fmt(T0)} K</b>:"
+        r["lattice"].value = f"lattice \u03ba = <b>{fmt(k0)}</b> {_W}"
+        r["electronic"].value = "" if ke0 is None else f"electronic \u03ba = {fmt(ke0)} {_W}"
+        r["bipolar"].value = "" if kb0 is None else f"bipolar \u03ba = {fmt(kb0)} {_W}"
+        total = None if ke0 is None and kb0 is None else k0 + (ke0 or 0.0) + (kb0 or 0.0)
+        r["total"].value = "" if total is None else f"total \u03ba = <b>{fmt(total)}</b> {_W}"
+        fl = self.floor(T0)
+        r["floor"].value = "" if fl is None else (
+            f"<span title='Cahill-Watson-Pohl minimum'>minimum \u03ba = {fmt(float(fl))} {_W}</span>")
+        self._k0 = k0
+        if self.material is not None:
+            length = next((float(m.values["length"]) for m in self.model.scattering if m.kind == "boundary"), None)
+            self.material_panel.show_notes(self.material, temperature=T0, boundary_length=length)
+
+    @property
+    def kappa_at_temperature(self) -> float:
+        """Model lattice conductivity at the chosen temperature [W/m/K] (as shown)."""
+        return self._k0
+
+    def _draw_conductivity(self):
+        T = self.temperatures
+        p = self.parts(T)
+        parts = {"lattice": (T, p.lattice)}
+        floor = self.floor(T)
+        if floor is not None:
+            parts["floor"] = (T, floor)
+        ds = self.data
+        measured = measured_lattice = label = None
+        el = self.electronic()
+        if ds is not None:
+            measured = (ds.temperature, ds.kappa)
+            label = "measured (lattice)" if ds.kind == "lattice" else "measured (total)"
+            if el is not None:
+                Td, ke, kl, _ = el
+                parts["electronic"] = (Td, ke)
+                pd = self.parts(Td)
+                parts["total"] = (Td, pd.lattice + ke + (0.0 if pd.bipolar is None else pd.bipolar))
+                measured_lattice = (Td, kl)
+        if p.bipolar is not None:
+            parts["bipolar"] = (T, p.bipolar)
+            parts.setdefault("total", (T, p.lattice + p.bipolar))
+        band = self._band if self.state.fit is not None and not self.state.fit_stale else None
+        self.plots["conductivity"].update(T, parts, measured=measured, measured_lattice=measured_lattice,
+                                          band=band, marker=float(self.temperature.value), measured_label=label)
+
+    def _draw_rates(self):
+        model = self.model
+        T0 = float(self.temperature.value)
+        omega = {b.name: np.geomspace(b.omega_max * 1e-3, b.omega_max, 160) for b in model.branches}
+        rates = {b.name: model.rates(omega[b.name], T0)[b.name] for b in model.branches}
+        self.plots["rates"].update(omega, rates, {m.name: m.kind for m in model.scattering}, T0)
+
+    def _draw_spectrum(self):
+        T0 = float(self.temperature.value)
+        s = self.model.spectral(T0)
+        self.plots["spectrum"].update(s.omega, s.kappa_omega, T0)
+
+    def _draw_mfp(self):
+        model = self.model
+        T0 = float(self.temperature.value)
+        s = model.spectral(T0)
+        length = next((float(m.values["length"]) for m in model.scattering if m.kind == "boundary"), None)
+        self.plots["mfp"].update(s.mfp, s.kappa_accumulated, T0, length, median=s.median_mfp)
+
