@@ -226,7 +226,7 @@ def test_params_roundtrip_and_with_params():
     assert m2.params["umklapp.B"] == 4e-19
     assert m2.kappa(300.0) < m.kappa(300.0)
     info = m.parameter_info()["boundary.length"]
-    assert info.unit == "m" and info.log and info.label == "grain size / boundary length [m]"
+    assert info.unit == "m" and info.log and info.label == "grain size (boundary length) [m]"
     again = LatticeModel.from_dict(m2.to_dict())
     assert again == m2
     assert float(again.kappa(123.0)) == float(m2.kappa(123.0))

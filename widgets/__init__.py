@@ -6,8 +6,8 @@ ipywidgets as ``ipw``: this package is itself named ``widgets``.
 
 Rooms (each under ~500 lines):
 
-* ``_engine``: the one door into kinetic (public names only; marked fallbacks
-  for engine names not yet merged), ``_fallback_words``: its word tables;
+* ``_engine``: the one door into kinetic (public names only; words, colours,
+  default models, calibrations, the conductivity chain all come from the engine);
 * ``state``: one source of truth, versioned inputs, stale results;
 * ``workbench`` (slim: layout and wiring), ``views`` (readouts and live plots);
 * panels: ``data_panel``, ``material_panel``, ``controls`` (sliders, mechanism

@@ -47,8 +47,8 @@ class Boundary(Mechanism):
     colour: ClassVar[str] = "#1f77b4"
     limits_mean_free_path: ClassVar[bool] = True
     _spec: ClassVar[dict] = {
-        "length": _Spec("m", "grain size / boundary length", (1e-9, 1e-1), power=-1.0),
-        "specularity": _Spec("", "specular fraction of boundary reflections p", (0.0, 0.99), log=False,
+        "length": _Spec("m", "grain size (boundary length)", (1e-9, 1e-1), power=-1.0),
+        "specularity": _Spec("", "share of specular reflections p", (0.0, 0.99), log=False,
                              allow_zero=True, upper_open=True),
     }
 

@@ -60,13 +60,13 @@ class Dislocation(Mechanism):
     colour: ClassVar[str] = "#e377c2"
     _spec: ClassVar[dict] = {
         "density": _Spec("m^-2", "dislocation density", (1e8, 1e18), power=1.0),
-        "burgers": _Spec("m", "Burgers vector", (1e-10, 2e-9), fixed=True),
+        "burgers": _Spec("m", "Burgers vector length", (1e-10, 2e-9), fixed=True),
         "gruneisen": _Spec("", "Grüneisen parameter", (0.1, 10.0), fixed=True),
         "volume_per_atom": _Spec("m^3", "volume per atom", (1e-30, 1e-27), fixed=True),
         "poisson_ratio": _Spec("", "Poisson ratio", (0.0, 0.5), log=False, fixed=True,
                                allow_zero=True, upper_open=True),
-        "velocity_ratio": _Spec("", "vL / vT", (1.0, 3.0), log=False, fixed=True),
-        "orientation": _Spec("", "orientation factor eta", (0.1, 1.0), log=False, fixed=True, power=1.0),
+        "velocity_ratio": _Spec("", "ratio of sound velocities vL / vT", (1.0, 3.0), log=False, fixed=True),
+        "orientation": _Spec("", "orientation factor η (dislocations to heat flow)", (0.1, 1.0), log=False, fixed=True, power=1.0),
     }
 
     def rate(self, omega, T, branch):

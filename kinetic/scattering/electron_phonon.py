@@ -32,7 +32,7 @@ class ElectronPhonon(Mechanism):
     kind: ClassVar[str] = "electron_phonon"
     label: ClassVar[str] = "Free carriers"
     colour: ClassVar[str] = "#8c564b"
-    _spec: ClassVar[dict] = {"C": _Spec("", "carrier-scattering strength C", (1e-8, 1e-1), power=1.0)}
+    _spec: ClassVar[dict] = {"C": _Spec("", "electron-phonon scattering strength C", (1e-8, 1e-1), power=1.0)}
 
     def rate(self, omega, T, branch):
         omega, T = _omega_T(omega, T)

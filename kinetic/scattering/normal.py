@@ -41,8 +41,8 @@ class Normal(Mechanism):
     resistive: ClassVar[bool] = False
     _spec: ClassVar[dict] = {
         "B": _Spec("s^(n-1) K^-m", "normal-process strength B", (1e-30, 1e-8), power=1.0),
-        "omega_power": _Spec("", "normal-process frequency exponent n", (0.5, 4.0), log=False, fixed=True),
-        "temperature_power": _Spec("", "normal-process temperature exponent m", (0.5, 5.0), log=False,
+        "omega_power": _Spec("", "normal processes: power of frequency n", (0.5, 4.0), log=False, fixed=True),
+        "temperature_power": _Spec("", "normal processes: power of temperature m", (0.5, 5.0), log=False,
                                    fixed=True),
     }
 

@@ -49,8 +49,8 @@ class PointDefect(Mechanism):
     label: ClassVar[str] = "Point defects (mass disorder)"
     colour: ClassVar[str] = "#2ca02c"
     _spec: ClassVar[dict] = {
-        "A": _Spec("s^3", "point-defect strength A (rate A omega^4)", (1e-48, 1e-38), power=1.0),
-        "gamma": _Spec("", "mass-disorder parameter Gamma", (1e-7, 1.0), power=1.0),
+        "A": _Spec("s^3", "point-defect strength A (rate A ω⁴)", (1e-48, 1e-38), power=1.0),
+        "gamma": _Spec("", "mass-disorder strength Γ", (1e-7, 1.0), power=1.0),
         "volume_per_atom": _Spec("m^3", "volume per atom", (1e-30, 1e-27), fixed=True, power=1.0),
     }
 

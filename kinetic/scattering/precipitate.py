@@ -48,7 +48,7 @@ class Precipitate(Mechanism):
     _spec: ClassVar[dict] = {
         "radius": _Spec("m", "precipitate radius", (2e-10, 1e-6)),
         "number_density": _Spec("m^-3", "precipitates per volume", (1e15, 1e27), power=1.0),
-        "density_contrast": _Spec("", "density contrast dD/D", (1e-3, 10.0), fixed=True),
+        "density_contrast": _Spec("", "density contrast ΔD/D", (1e-3, 10.0), fixed=True),
     }
 
     def rate(self, omega, T, branch):

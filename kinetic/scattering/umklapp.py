@@ -54,9 +54,9 @@ class Umklapp(Mechanism):
     colour: ClassVar[str] = "#d62728"
     _spec: ClassVar[dict] = {
         "B": _Spec("s K^-1", "Umklapp strength B", (1e-22, 1e-15), power=1.0),
-        "gruneisen": _Spec("", "Grüneisen parameter (anharmonicity)", (0.1, 10.0), power=2.0),
+        "gruneisen": _Spec("", "Grüneisen parameter", (0.1, 10.0), power=2.0),
         "atomic_mass": _Spec("kg", "mean atomic mass", (1e-27, 1e-24), fixed=True, power=-1.0),
-        "b": _Spec("", "Umklapp temperature exponent b", (1.0, 10.0), log=False),
+        "b": _Spec("", "Umklapp onset factor b, in exp(−θ/bT)", (1.0, 10.0), log=False),
     }
 
     def __post_init__(self):
