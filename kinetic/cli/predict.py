@@ -45,7 +45,8 @@ def add_parsers(sub, model_options, parser_class):
     a.add_argument("--temperatures", nargs="+", required=True, metavar="T", help="[K]")
     a.add_argument("--length", help="boundary length [m] (a unit may be given: 1mm; default: the hosts')")
     a.add_argument("--gruneisen", help="Grüneisen parameter (default: interpolated between the hosts)")
-    a.add_argument("--strain", default="0", help="Abeles strain parameter epsilon (default 0)")
+    a.add_argument("--strain", default=None, help="Abeles strain parameter epsilon (default: the published "
+                   "value of the series where there is one, e.g. 39 for Si-Ge, else 0)")
     a.add_argument("--split", action="store_true", help="longitudinal + transverse branches")
     a.add_argument("--json", action="store_true")
 
@@ -141,7 +142,7 @@ def run_sweep(args) -> int:
         length = None if args.length is None else number(args.length, "--length", unit="m")
         gr = None if args.gruneisen is None else number(args.gruneisen, "--gruneisen")
         sw = whatif.alloy_sweep(args.host_a, args.host_b, X, T, boundary_length=length, gruneisen=gr,
-                                strain_epsilon=number(args.strain, "--strain"),
+                                strain_epsilon=None if args.strain is None else number(args.strain, "--strain"),
                                 split_branches=True if args.split else None)
         notes = []
         for host, frac in ((args.host_a, float(max(X))), (args.host_b, float(max(1.0 - X)))):
