@@ -6,10 +6,7 @@ import numpy as np
 from ..electronic import L0
 from ..errors import ParameterError
 
-try:  # the engine's one converter at the doors, where the package has it
-    from ..quantities import to_si as _to_si
-except ImportError:  # pragma: no cover - until kinetic.quantities is merged
-    _to_si = None
+from ..quantities import is_quantity, to_si
 
 #: Lorenz-number choices by name ("band" and "spb" are the same single-parabolic-band value from S).
 LORENZ_CHOICES = ("auto", "sommerfeld", "band", "spb", "kim")
@@ -33,14 +30,8 @@ _END_SLACK = 1e-9
 # units at the door
 def _si(value, unit: str, name: str):
     """Plain numbers pass; a quantity with ``.to`` (pint) is converted to ``unit`` or refused."""
-    if hasattr(value, "to") and hasattr(value, "magnitude"):
-        if _to_si is not None:
-            return np.asarray(_to_si(value, unit, name), dtype=float)
-        try:
-            return np.asarray(value.to(unit).magnitude, dtype=float)
-        except Exception as exc:  # noqa: BLE001 - pint's DimensionalityError and friends
-            raise ParameterError(f"{name} must be given in units convertible to {unit}, got "
-                                 f"{getattr(value, 'units', '?')} ({type(exc).__name__})") from None
+    if is_quantity(value):
+        return np.asarray(to_si(value, unit, name), dtype=float)  # the package's one converter
     if isinstance(value, (str, bytes)) or isinstance(value, bool):
         raise ParameterError(f"{name} must be a number or array [{unit}], got {value!r}")
     try:
