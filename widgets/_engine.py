@@ -307,8 +307,8 @@ def _declared_words(kind: str, name: str):
     """The engine's plain words for parameter ``name`` of mechanism ``kind`` (or of the bipolar term)."""
     if kind == "bipolar":
         p = bipolar_parameters().get(f"bipolar.{name}")
-    elif kind in MECHANISMS:
-        p = MECHANISMS[kind].example().parameters.get(name)
+    elif kind in MECHANISMS:  # the class's examples cover each of its forms (Umklapp: B or Grüneisen)
+        p = next((e.parameters[name] for e in MECHANISMS[kind].examples() if name in e.parameters), None)
     else:
         p = None
     return p.description if p is not None and p.description else None
