@@ -536,3 +536,18 @@ def test_bipolar_part_is_drawn_and_added_to_the_total(wb):
                                bipolar_kappa_activated(Td, 0.05, 0.5), rtol=1e-9,
                                atol=1e-12 * total_before.max())
     assert "bipolar" in wb.readouts["bipolar"].value
+
+
+def test_every_parameter_has_plain_words_not_its_code_key():
+    # Issue 10: labels in plain words of the trade, the code key only in a tooltip. Every parameter of
+    # every registered mechanism form and of the bipolar term must get words from the engine's own
+    # declarations, never the bare code name.
+    from kinetic.scattering import MECHANISMS
+
+    from widgets import _engine
+
+    keys = [f"{kind}.{name}" for kind, cls in MECHANISMS.items() for ex in cls.examples() for name in ex.parameters]
+    keys += list(_engine.bipolar_parameters())
+    for key in keys:
+        words = _engine.parameter_words(key)
+        assert words != key.split(".", 1)[1] and words != key, key
