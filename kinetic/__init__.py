@@ -57,7 +57,7 @@ _COMPAT = {
 #: Public submodules, loaded on first attribute access (``kinetic.materials`` ...).
 _SUBMODULES = {"materials", "defaults", "alloy", "grid", "spectrum", "zt_sweep", "disorder", "estimates", "electronic", "conductivity", "data",
                "porosity", "heat_capacity", "demo", "fitting", "records", "whatif", "report", "batch",
-               "lattice", "scattering", "dispersion", "quantities", "checks", "presets"}
+               "lattice", "scattering", "dispersion", "quantities", "checks", "presets", "maps"}
 
 __all__ = ["__version__", "KineticError", "ParameterError", "ModelError", "DataError", "RecordError", "FitError",
            *_PUBLIC, "materials", "defaults", "electronic", "disorder", "estimates", "demo"]
