@@ -7,7 +7,7 @@ from scipy.constants import e, h, hbar, k as kB, m_e
 
 from kinetic import Boundary, Branch, LatticeModel, Normal, ParameterError, PointDefect, Umklapp, materials
 from kinetic.data import Dataset
-from kinetic.disorder import alloy_gamma, material_gamma, virtual_crystal
+from kinetic.disorder import virtual_crystal
 from kinetic.electronic import KB_OVER_E
 from kinetic.fitting import fit
 from kinetic.whatif import (RowBoundary, alloy_model, alloy_sweep, grain_alloy_map, grain_size_sweep, sweep,
