@@ -45,6 +45,7 @@ __all__ = [
     "calibration",
     "default_free",
     "default_model",
+    "new_mechanism",
     "scope_notes",
 ]
 
@@ -276,6 +277,38 @@ def default_free(model: LatticeModel) -> list:
     if not out:
         raise ParameterError("the model has none of the default free parameters; name them with free=[...]")
     return out
+
+
+def new_mechanism(kind: str, material=None):
+    """A mechanism of any registered kind, with start values, to add to a model (a what-if).
+
+    The material's calibrated mechanism where its default model has one of that
+    kind; otherwise the class's own defaults, or its documented example values
+    (:meth:`kinetic.scattering.Mechanism.example`). The CLI's ``--add`` and the
+    workbench's "add a mechanism" both call this, so a newly registered
+    mechanism is reachable everywhere without further code.
+
+    Raises
+    ------
+    ParameterError
+        An unknown kind (the message lists the registered ones).
+    """
+    from .scattering import MECHANISMS
+
+    if kind not in MECHANISMS:
+        raise ParameterError(f"unknown mechanism {kind!r}; registered: {', '.join(MECHANISMS)}")
+    if material is not None:
+        try:
+            model = default_model(material)
+        except ParameterError:
+            model = None
+        if model is not None and kind in model.mechanism_names:
+            return model.mechanism(kind)
+    cls = MECHANISMS[kind]
+    try:
+        return cls()
+    except TypeError:
+        return cls.example()
 
 
 def _fmt_k(t: float) -> str:

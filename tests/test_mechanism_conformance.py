@@ -217,3 +217,27 @@ def test_registry_order_is_the_order_users_see():
     # the workbench's "add mechanism" list and the CLI follow MECHANISMS' order: the common ones first
     assert list(MECHANISMS)[:7] == ["boundary", "point_defect", "umklapp", "normal", "electron_phonon",
                                     "dislocation", "precipitate"]
+
+
+# ------------------------------------------------------------------ every door reaches every mechanism
+@pytest.mark.parametrize("kind", list(MECHANISMS))
+def test_every_registered_mechanism_reaches_the_cli_and_the_workbench(kind, capsys):
+    # Issue 11: adding a mechanism is one class and its registration. The CLI's --add and the
+    # workbench's "add a mechanism" both go through kinetic.defaults.new_mechanism, so a registered
+    # kind must be addressable from both without further code.
+    from kinetic.cli import main
+    from kinetic.defaults import default_model, new_mechanism
+
+    mech = new_mechanism(kind, "Si")
+    assert mech.kind == kind
+    model = default_model("Si")
+    if kind not in model.mechanism_names:
+        rc = main(["predict", "--material", "Si", "--add", kind, "--temperatures", "300", "--json"])
+        out = capsys.readouterr().out
+        assert rc == 0 and '"kappa"' in out
+    pytest.importorskip("ipywidgets")
+    from widgets import _engine
+
+    assert _engine.new_mechanism(kind, "Si").kind == kind
+    assert _engine.mechanism_label(kind) == MECHANISMS[kind].label
+    assert _engine.mechanism_colour(kind) == MECHANISMS[kind].colour

@@ -163,20 +163,8 @@ def with_number(material, fld: str, value: float):
 
 
 def new_mechanism(kind: str, material=None):
-    """A mechanism of ``kind`` with the engine's start values (the material's default where it has one)."""
-    if kind not in MECHANISMS:
-        raise ParameterError(f"unknown mechanism kind {kind!r}; known: {', '.join(MECHANISMS)}")
-    if material is not None:
-        try:
-            model = default_model(material, mechanisms=[kind] if kind != "normal" else ["boundary", kind])
-            return model.mechanism(kind)
-        except ParameterError:
-            pass
-    cls = MECHANISMS[kind]
-    try:
-        return cls()
-    except TypeError:
-        return cls.example()  # a class whose strength has no default: the engine's own example values
+    """A mechanism of ``kind`` with the engine's start values (:func:`kinetic.defaults.new_mechanism`)."""
+    return _defaults.new_mechanism(kind, material)
 
 
 # ---------------------------------------------------------------------------------------

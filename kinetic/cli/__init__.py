@@ -72,7 +72,11 @@ class _Parser(argparse.ArgumentParser):
 
 def _model_options(sp):
     sp.add_argument("--material", help="material preset (see 'kinetic materials')")
-    sp.add_argument("--mechanisms", help="comma-separated: boundary,point_defect,umklapp[,normal]")
+    sp.add_argument("--mechanisms", help="keep only these of the preset's calibrated mechanisms, comma-separated "
+                    "(boundary,point_defect,umklapp,normal)")
+    sp.add_argument("--add", action="append", metavar="KIND", help="add a scattering mechanism of any registered "
+                    "kind with start values (e.g. dislocation, precipitate, electron_phonon; repeatable); "
+                    "set its parameters with --set KIND.PARAM=VALUE")
     sp.add_argument("--split", action="store_true", help="longitudinal + transverse branches")
     sp.add_argument("--set", action="append", metavar="NAME=VALUE", help="fix a parameter value")
 

@@ -51,6 +51,11 @@ def model_from(args, material=None, *, base=None):
             mechs = [s.strip() for s in args.mechanisms.split(",") if s.strip()]
         split = True if getattr(args, "split", False) else None
         model = default_model(mat, mechanisms=mechs, split_branches=split)
+    for kind in getattr(args, "add", None) or ():
+        kind = kind.strip()
+        if kind in model.mechanism_names:
+            raise ParameterError(f"--add {kind}: the model already has this mechanism (change it with --set)")
+        model = model.with_mechanism(_defaults().new_mechanism(kind, getattr(args, "material", None)))
     vals = {}
     for k, v in assignments(getattr(args, "set", None), "--set").items():
         vals[k] = number(v, f"--set {k}")
