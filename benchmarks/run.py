@@ -78,8 +78,9 @@ def main(argv=None):
     t_all = time.perf_counter()
     results = collect(("bench_engine",) if args.engine else BENCHES)
     rows = [r for _, rs, _ in results if not isinstance(rs, str) for r in rs]
-    width = max([len(r[0]) for r in rows] + [40])
-    vwidth = max([len(r[1]) for r in rows] + [8])
+    # column widths from the typical rows (a long value, e.g. a list of browser timings, just runs on)
+    width = min(max([len(r[0]) for r in rows] + [40]), 72)
+    vwidth = min(max([len(str(r[1])) for r in rows] + [8]), 12)
     print(f"kinetic benchmarks ({os.cpu_count()} CPUs, Python {platform.python_version()}, numpy {np.__version__}; "
           "each benchmark says how it times)")
     for name, rs, secs in results:
