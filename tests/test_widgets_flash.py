@@ -102,7 +102,8 @@ def test_choosing_another_sample_stales_the_fit(wb):
 
 
 def test_several_uploaded_files_form_a_series_and_other_data_end_it(wb):
-    _upload(wb, ("a.csv", open(PATHS[0], "rb").read()), ("b.csv", PLAIN))
+    with open(PATHS[0], "rb") as fh:
+        _upload(wb, ("a.csv", fh.read()), ("b.csv", PLAIN))
     assert [d.label for d in wb.state.series] == [load_data(PATHS[0]).label, "pellet Y (invented)"]
     wb.data_panel.use_demo.click()  # the built-in k data: a series of one, the chooser hidden
     assert wb.state.series == (wb.data,) and wb.data_panel.sample.layout.display == "none"
@@ -196,6 +197,14 @@ def test_flash_options_labels_are_the_loaders_words():
     assert fo.relative_density.description == words["relative_density"][1]
     assert fo.porosity.description == words["porosity_correction"][1]
     assert fo.options() == {}
+    # only the controls a choice needs are shown: the material for a model c_p, the value row for a typed one
+    shown = lambda w: w.layout.display != "none"  # noqa: E731
+    assert shown(fo.heat_capacity) and shown(fo.porosity) and shown(fo.relative_density)
+    assert not shown(fo.material) and not shown(fo._cp_row)
+    fo.heat_capacity.value = "debye"
+    assert shown(fo.material) and shown(fo.heat_capacity) and not shown(fo._cp_row)
+    fo.heat_capacity.value = "value"
+    assert shown(fo._cp_row) and not shown(fo.material) and shown(fo.density)
 
 
 class _MessagesStub:

@@ -37,9 +37,9 @@ from kinetic import (
     whatif,
 )
 from kinetic import conductivity as _conductivity
+from kinetic import defaults as _defaults
 from kinetic import fit as _fit
 from kinetic import porosity as _porosity
-from kinetic import defaults as _defaults
 from kinetic._io import atomic_write as _atomic_write
 from kinetic.data.diffusivity import kappa_by_heat_capacity
 from kinetic.data.options import LOADER_OPTIONS
@@ -74,8 +74,8 @@ __all__ = [
     "flash_series_paths",
     "get_material",
     "kappa_by_heat_capacity",
-    "loader_label",
     "load_record",
+    "loader_label",
     "material_names",
     "material_of",
     "materials",

@@ -55,12 +55,11 @@ class FlashOptions(ipw.Accordion):
 
     def __init__(self, on_change: Callable, messages):
         self._on_change = on_change
-        wide = dict(style={"description_width": "11em"}, layout=ipw.Layout(width="21em"))
         self.heat_capacity = ipw.Dropdown(options=_CP_CHOICES, value="file",
-                                          description=_label("heat_capacity"), **wide)
+                                          description=_label("heat_capacity"), **_wide())
         self.heat_capacity.tooltip = "heat_capacity: c_p for k = D rho c_p"
         self.material = ipw.Dropdown(options=[("from the file", None)] + [(n, n) for n in _engine.material_names()],
-                                     value=None, description=_label("material"), **wide)
+                                     value=None, description=_label("material"), **_wide())
         self.material.tooltip = "material: the preset whose Dulong-Petit or Debye c_p is used"
         self.cp_value = ipw.Text(value="", placeholder="e.g. 0.8", description="c_p value",
                                  style={"description_width": "11em"}, layout=ipw.Layout(width="16em"))
@@ -72,13 +71,13 @@ class FlashOptions(ipw.Accordion):
         self.density_unit = ipw.Dropdown(options=_RHO_UNITS, value=_RHO_UNITS[0], layout=ipw.Layout(width="8em"))
         self.density_unit.tooltip = "unit of the typed density"
         self.relative_density = ipw.Text(value="", placeholder="from the file, e.g. 0.92",
-                                         description=_label("relative_density"), **wide)
+                                         description=_label("relative_density"), **_wide())
         self.relative_density.tooltip = ("relative_density: pellet density / full density, in (0, 1] "
                                           "(empty: from the file)")
         self._relations = _engine.porosity_relations()
         self.porosity = ipw.Dropdown(options=[("none (k of the sample as measured)", None)]
                                      + [(n, n) for n in self._relations], value=None,
-                                     description=_label("porosity_correction"), **wide)
+                                     description=_label("porosity_correction"), **_wide())
         self.porosity_hint = ipw.HTML()
         self.report = ipw.HTML()
         self.report.add_class(css("flash-report"))
@@ -182,6 +181,11 @@ class SampleChooser(ipw.Dropdown):
     def _picked(self, change):
         if not self._muted and change["new"] is not None:
             self._on_choose(int(change["new"]))
+
+
+def _wide() -> dict:
+    """Style and a layout of its own (a shared layout would hide every control that uses it)."""
+    return {"style": {"description_width": "11em"}, "layout": ipw.Layout(width="21em")}
 
 
 def _html(text) -> str:
