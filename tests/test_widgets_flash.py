@@ -165,7 +165,6 @@ def test_porosity_correction_and_relative_density_give_the_loaders_k(wb):
     _same(wb.data.kappa, parse_data(PLAIN, name="plain.csv", relative_density="0.9",
                                     porosity_correction="dem").kappa)
     assert wb.data.relative_density == 0.9
-    wb.messages.faults.clear()
 
 
 def test_refused_flash_file_keeps_the_previous_data_with_one_line(wb):
@@ -186,7 +185,6 @@ def test_refused_flash_file_keeps_the_previous_data_with_one_line(wb):
     # a typed density that disagrees with the file's: refused, previous data kept
     dp.flash.density.value = "3"
     assert wb.data is before and "disagrees" in dp.error.value and "density" in dp.error.value
-    wb.messages.faults.clear()
 
 
 def test_flash_options_labels_are_the_loaders_words():
@@ -211,6 +209,21 @@ class _MessagesStub:
     @staticmethod
     def guard(f):
         return f
+
+
+def test_relative_errors_give_the_loaders_uncertainty(wb):
+    dp = wb.data_panel
+    dp.use_flash_demo.click()
+    dp.flash.errors["diffusivity_rel_err"].value = "0.05"
+    dp.flash.errors["heat_capacity_rel_err"].value = "0.02"
+    direct = load_data(PATHS[0], diffusivity_rel_err=0.05, heat_capacity_rel_err=0.02)
+    _same(wb.data.kappa_err, direct.kappa_err)
+    assert not np.allclose(wb.data.kappa_err, load_data(PATHS[0]).kappa_err, rtol=1e-3)
+    before = wb.data
+    dp.flash.errors["density_rel_err"].value = "two"  # not a number: one line, data kept
+    assert wb.data is before and "Relative error of density" in dp.error.value and "'two'" in dp.error.value
+    dp.flash.errors["density_rel_err"].value = "1.5"  # outside (0, 1): the loader's own message
+    assert wb.data is before and "density_rel_err" in dp.error.value
 
 
 # --- what-if notes ---------------------------------------------------------------------------

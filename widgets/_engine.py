@@ -41,12 +41,13 @@ from kinetic import defaults as _defaults
 from kinetic import fit as _fit
 from kinetic import porosity as _porosity
 from kinetic._io import atomic_write as _atomic_write
-from kinetic.data.diffusivity import kappa_by_heat_capacity
+from kinetic.data.diffusivity import DEFAULT_RELATIVE_ERRORS, kappa_by_heat_capacity
 from kinetic.data.options import LOADER_OPTIONS
 from kinetic.heat_capacity import HEAT_CAPACITY_MODELS
 from kinetic.scattering import MECHANISMS
 
 __all__ = [
+    "DEFAULT_RELATIVE_ERRORS",
     "HEAT_CAPACITY_MODELS",
     "LOADER_OPTIONS",
     "MECHANISMS",

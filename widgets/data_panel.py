@@ -171,7 +171,11 @@ class DataPanel(ipw.VBox):
         files = [(str(n), bytes(c)) for n, c in files]
         if not files:
             return None
-        opts = self.options()
+        try:
+            opts = self.options()
+        except KineticError as exc:
+            self._refused(exc, b"")
+            return None
         out = []
         for name, content in files:
             try:
@@ -213,7 +217,7 @@ class DataPanel(ipw.VBox):
 
     def _refused(self, exc, content: bytes) -> None:
         msg = " ".join(str(exc).split())
-        html = f"<b>Could not use this file.</b> {_esc(msg)}"
+        html = f"<b>Could not use {'this file' if content else 'these choices'}.</b> {_esc(msg)}"
         m = _LINE.search(msg)
         if m:
             n = int(m.group(1))

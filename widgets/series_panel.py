@@ -79,6 +79,17 @@ class FlashOptions(ipw.Accordion):
                                      + [(n, n) for n in self._relations], value=None,
                                      description=_label("porosity_correction"), **_wide())
         self.porosity_hint = ipw.HTML()
+        d = _engine.DEFAULT_RELATIVE_ERRORS
+        self.errors = {}
+        for option, default, what in (("diffusivity_rel_err", d["diffusivity"], "D"),
+                                      ("density_rel_err", d["density"], "density"),
+                                      ("heat_capacity_rel_err", None, "c_p")):
+            hint = (f"default {default:g}" if default is not None else
+                    f"default {d['heat_capacity']:g} measured, {d['heat_capacity_model']:g} model")
+            w = ipw.Text(value="", placeholder=hint, description=_label(option), continuous_update=False,
+                         **_wide())
+            w.tooltip = f"{option}: relative standard error of {what}, e.g. 0.03 for 3 % (empty: {hint})"
+            self.errors[option] = w
         self.report = ipw.HTML()
         self.report.add_class(css("flash-report"))
         self.apply = ipw.Button(description="Re-read with these choices", layout=ipw.Layout(width="auto"))
@@ -87,13 +98,13 @@ class FlashOptions(ipw.Accordion):
         self._muted = False
         for w in (self.heat_capacity, self.material, self.cp_unit, self.density_unit, self.porosity):
             w.observe(messages.guard(self._changed), names="value")
-        for w in (self.cp_value, self.density, self.relative_density):
+        for w in (self.cp_value, self.density, self.relative_density, *self.errors.values()):
             w.continuous_update = False
             w.observe(messages.guard(self._changed), names="value")
         self.apply.on_click(messages.guard(lambda _b: self._on_change()))
         body = ipw.VBox([self.heat_capacity, self.material, self._cp_row,
                          ipw.HBox([self.density, self.density_unit]), self.relative_density,
-                         self.porosity, self.porosity_hint, self.apply, self.report])
+                         self.porosity, self.porosity_hint, *self.errors.values(), self.apply, self.report])
         super().__init__(children=[body], selected_index=None)
         self.set_title(0, "Flash data (diffusivity)")
         self.add_class(css("flash-options"))
@@ -139,6 +150,15 @@ class FlashOptions(ipw.Accordion):
             out["relative_density"] = self.relative_density.value.strip()
         if self.porosity.value is not None:
             out["porosity_correction"] = self.porosity.value
+        for option, w in self.errors.items():
+            text = w.value.strip()
+            if text:
+                try:
+                    out[option] = float(text)  # the loader checks the range
+                except ValueError:
+                    raise _engine.ParameterError(
+                        f'"{_label(option)}": expected a relative error such as 0.03 for 3 %, '
+                        f"got {text[:40]!r}") from None
         return out
 
     def show(self, ds) -> None:
