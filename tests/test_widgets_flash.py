@@ -84,6 +84,7 @@ def test_demo_flash_series_is_loaded_drawn_and_chosen(wb):
     assert cp.measured.get_label().startswith(series[2].label)
     _same(cp.measured.get_ydata(), series[2].kappa)
     assert "Sample 3 of a series of 3" in dp.summary.value
+    assert "c_p from column" in dp.summary.value and "not corrected to full density" in dp.summary.value
 
 
 def test_choosing_another_sample_stales_the_fit(wb):

@@ -62,6 +62,13 @@ def describe_dataset(ds) -> str:
     if getattr(ds, "heat_capacity", None) is not None:
         cols[0] = cols[0].replace("thermal conductivity", "thermal conductivity from D \u03c1 c_p")
     where = ds.source or "uploaded or built in"
+    if getattr(ds, "heat_capacity", None) is not None:  # a flash file: say where c_p came from
+        where += f"; c_p from {ds.heat_capacity_choice or 'the file'}"
+        if ds.relative_density is not None:
+            where += (f"; relative density {ds.relative_density:.4g}, "
+                      + (f"corrected to full density ({ds.porosity_correction})" if ds.porosity_correction
+                         else "not corrected to full density"))
+        where += " (see Flash data below)"
     return (f"<b>{_esc(ds.label) or '(no label)'}</b>: {len(T)} points, "
             f"{fmt(T.min())}\u2013{fmt(T.max())} K; columns: {', '.join(cols)}."
             f"<br><span style='color:#666'>from {_esc(where)}</span>")
