@@ -197,7 +197,7 @@ def test_flash_options_labels_are_the_loaders_words():
     assert fo.porosity.description == words["porosity_correction"][1]
     assert fo.options() == {}
     # only the controls a choice needs are shown: the material for a model c_p, the value row for a typed one
-    shown = lambda w: w.layout.display != "none"  # noqa: E731
+    shown = lambda w: w.layout.display != "none"
     assert shown(fo.heat_capacity) and shown(fo.porosity) and shown(fo.relative_density)
     assert not shown(fo.material) and not shown(fo._cp_row)
     fo.heat_capacity.value = "debye"
