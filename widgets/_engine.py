@@ -41,7 +41,7 @@ from kinetic import defaults as _defaults
 from kinetic import fit as _fit
 from kinetic import porosity as _porosity
 from kinetic._io import atomic_write as _atomic_write
-from kinetic.data.diffusivity import DEFAULT_RELATIVE_ERRORS, kappa_by_heat_capacity
+from kinetic.data.diffusivity import DEFAULT_RELATIVE_ERRORS
 from kinetic.data.options import LOADER_OPTIONS
 from kinetic.heat_capacity import HEAT_CAPACITY_MODELS
 from kinetic.scattering import MECHANISMS
@@ -74,7 +74,6 @@ __all__ = [
     "fit",
     "flash_series_paths",
     "get_material",
-    "kappa_by_heat_capacity",
     "load_record",
     "loader_label",
     "material_names",
