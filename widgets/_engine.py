@@ -36,16 +36,20 @@ from kinetic import (
     save_record,
     whatif,
 )
-from kinetic import fit as _fit
-from kinetic.scattering import MECHANISMS
-
-
-
 from kinetic import conductivity as _conductivity
 from kinetic import defaults as _defaults
+from kinetic import fit as _fit
+from kinetic import porosity as _porosity
 from kinetic._io import atomic_write as _atomic_write
+from kinetic.data.diffusivity import DEFAULT_RELATIVE_ERRORS
+from kinetic.data.options import LOADER_OPTIONS
+from kinetic.heat_capacity import HEAT_CAPACITY_MODELS
+from kinetic.scattering import MECHANISMS
 
 __all__ = [
+    "DEFAULT_RELATIVE_ERRORS",
+    "HEAT_CAPACITY_MODELS",
+    "LOADER_OPTIONS",
     "MECHANISMS",
     "DataError",
     "Dataset",
@@ -68,8 +72,10 @@ __all__ = [
     "default_model",
     "demo",
     "fit",
+    "flash_series_paths",
     "get_material",
     "load_record",
+    "loader_label",
     "material_names",
     "material_of",
     "materials",
@@ -79,6 +85,7 @@ __all__ = [
     "new_mechanism",
     "parameter_words",
     "parse_data",
+    "porosity_relations",
     "predict_band",
     "report_rows",
     "save_record",
@@ -264,6 +271,22 @@ def report_rows(result, level: float = 0.95) -> list:
 
 # ---------------------------------------------------------------------------------------
 # files
+def loader_label(option: str) -> str:
+    """The plain words of a loader option, the same at every door (``kinetic.data.options``)."""
+    return LOADER_OPTIONS[option][1]
+
+
+def porosity_relations() -> dict:
+    """Effective-medium relations of the porosity step: name -> (largest porosity of its
+    validity range, one line on where it holds), from ``kinetic.porosity.RELATIONS``."""
+    return {name: (float(v[1]), str(v[2])) for name, v in _porosity.RELATIONS.items()}
+
+
+def flash_series_paths() -> list:
+    """Paths of the engine's invented flash-measurement demo series (``kinetic.demo``)."""
+    return [os.fspath(p) for p in demo.flash_series_paths()]
+
+
 def atomic_write(path, data) -> str:
     """Write bytes or text atomically; the file's permissions follow the user's umask."""
     out = _atomic_write(path, data)

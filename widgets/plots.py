@@ -21,7 +21,10 @@ from .style import (
     mechanism_title,
 )
 
-__all__ = ["AccumulationPlot", "ConductivityPlot", "RatesPlot", "SpectrumPlot"]
+__all__ = ["SAMPLE_COLOURS", "AccumulationPlot", "ConductivityPlot", "RatesPlot", "SpectrumPlot"]
+
+#: colours of the samples of a series (one each, in series order; apart from the model parts' colours)
+SAMPLE_COLOURS = ("#2ca02c", "#d62728", "#17becf", "#8c564b", "#e377c2", "#bcbd22", "#393b79", "#637939")
 
 
 class ConductivityPlot(Plot):
@@ -66,6 +69,7 @@ class ConductivityPlot(Plot):
         (m,) = ax.plot([], [], ls="none", marker="o", ms=4, mfc="none",
                        color=PART_COLOURS["measured"], label="measured")
         self.measured = self.dynamic(m)
+        self.samples: list = []  # measured points of the other samples of a series (made when needed)
         (ml,) = ax.plot([], [], ls="none", marker="s", ms=3.5, color=PART_COLOURS["measured_lattice"],
                         label="measured minus electronic")
         self.measured_lattice = self.dynamic(ml)
@@ -74,7 +78,8 @@ class ConductivityPlot(Plot):
             a.set_visible(False)
 
     def update(self, temperature, parts: dict, *, measured=None, measured_lattice=None,
-               band=None, marker=None, measured_label: str | None = None):
+               band=None, marker=None, measured_label: str | None = None, samples=(),
+               measured_colour: str | None = None):
         """Set the curves.
 
         Parameters
@@ -89,6 +94,10 @@ class ConductivityPlot(Plot):
             Temperature to mark [K].
         measured_label : str, optional
             Legend text of the measured points.
+        samples : sequence of (label, T [K], kappa [W/m/K], colour)
+            Measured points of the other samples of a series, one colour each.
+        measured_colour : str, optional
+            Colour of the measured points (the fitted sample's colour in a series).
         """
         for part, line in self.lines.items():
             xy = parts.get(part)
@@ -107,6 +116,21 @@ class ConductivityPlot(Plot):
                 line.set_visible(True)
         if measured_label:
             self.measured.set_label(measured_label)
+        self.measured.set_color(measured_colour or PART_COLOURS["measured"])
+        samples = list(samples or ())
+        while len(self.samples) < len(samples):
+            (line,) = self.ax.plot([], [], ls="none", marker="^", ms=3.5, mfc="none")
+            self.samples.append(self.dynamic(line))
+        for i, line in enumerate(self.samples):
+            if i < len(samples):
+                lab, t, k, colour = samples[i]
+                line.set_data(np.asarray(t, float), _positive_or_nan(k))
+                line.set_color(colour)
+                line.set_label(str(lab))
+                line.set_visible(True)
+            else:
+                line.set_visible(False)
+                line.set_data([], [])
         if band is None:
             self.band.set_visible(False)
         else:
@@ -128,7 +152,8 @@ class ConductivityPlot(Plot):
         self.marker.set_visible(marker_visible)
         vis = tuple(sorted(n for n, l in self.lines.items() if l.get_visible())) + (
             self.measured.get_visible(), self.measured_lattice.get_visible(), self.band.get_visible(),
-            self.measured.get_label())
+            self.measured.get_label(), self.measured.get_color(),
+            tuple((str(s[0]), s[3]) for s in samples))
         self._legend(vis, loc="best")
         self.stale = False
         self.redraw()

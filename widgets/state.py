@@ -31,6 +31,9 @@ class WorkbenchState:
     Attributes
     ----------
     data : Dataset or None
+        The sample being fitted: always one of ``series`` (or None).
+    series : tuple of Dataset
+        Every sample loaded together (one file gives a series of one).
     full_model : LatticeModel
         Every mechanism, including those switched off.
     enabled : dict
@@ -47,6 +50,7 @@ class WorkbenchState:
         The what-if results (dict), with their inputs.
     """
     data: object = None
+    series: tuple = ()
     full_model: object = None
     enabled: dict = field(default_factory=dict)
     free: dict = field(default_factory=dict)
@@ -64,10 +68,27 @@ class WorkbenchState:
             return self.versions[what]
 
     def set_data(self, data) -> None:
+        """Use ``data`` as the sample being fitted; data outside the series start a series of one."""
         with self.lock:
             if data is not self.data:
                 self.data = data
                 self.bump("data")
+            if data is None:
+                self.series = ()
+            elif not any(d is data for d in self.series):
+                self.series = (data,)
+
+    def set_series(self, series, index: int = 0) -> None:
+        """Use several samples at once; sample ``index`` becomes the one being fitted."""
+        with self.lock:
+            self.series = tuple(series)
+            self.set_data(self.series[index] if self.series else None)
+
+    @property
+    def sample_index(self):
+        """Position of the sample being fitted in ``series`` (None without data)."""
+        with self.lock:
+            return next((i for i, d in enumerate(self.series) if d is self.data), None)
 
     def set_model(self, full_model, enabled: dict | None = None) -> bool:
         """Use a new full model (and switches); True when anything really changed."""

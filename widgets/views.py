@@ -9,6 +9,7 @@ from __future__ import annotations
 import numpy as np
 
 from . import _engine
+from .plots import SAMPLE_COLOURS
 from .style import fmt
 
 __all__ = ["WorkbenchViews"]
@@ -103,9 +104,19 @@ class WorkbenchViews:
         if p.bipolar is not None:
             parts["bipolar"] = (T, p.bipolar)
             parts.setdefault("total", (T, p.lattice + p.bipolar))
+        samples, colour = [], None
+        series = self.state.series
+        if len(series) > 1:  # every sample of the series, one colour each; the fitted one is "measured"
+            for i, d in enumerate(series):
+                c = SAMPLE_COLOURS[i % len(SAMPLE_COLOURS)]
+                if d is ds:
+                    colour, label = c, f"{d.label or f'sample {i + 1}'} (being fitted)"
+                else:
+                    samples.append((d.label or f"sample {i + 1}", d.temperature, d.kappa, c))
         band = self._band if self.state.fit is not None and not self.state.fit_stale else None
         self.plots["conductivity"].update(T, parts, measured=measured, measured_lattice=measured_lattice,
-                                          band=band, marker=float(self.temperature.value), measured_label=label)
+                                          band=band, marker=float(self.temperature.value), measured_label=label,
+                                          samples=samples, measured_colour=colour)
 
     def _draw_rates(self):
         model = self.model

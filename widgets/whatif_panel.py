@@ -253,6 +253,7 @@ class WhatIfPanel(ipw.VBox):
                                          kappa=np.concatenate([p.kappa for p in parts], axis=0),
                                          gamma=np.concatenate([p.gamma for p in parts]))
                 new["map"] = mp
+                _add_notes(notes, *parts)
                 draw.append(lambda: self._draw_map(name, partner, mp, T0))
 
         self._step("doping and zT")
@@ -261,6 +262,7 @@ class WhatIfPanel(ipw.VBox):
             new["zt"] = zt
         if self._stop.is_set():
             raise _Cancelled()
+        _add_notes(notes, *new.values())  # the results' own scope notes (alloy sweeps, maps...)
         for d in draw:
             d()
         self.last = new
@@ -346,3 +348,12 @@ class WhatIfPanel(ipw.VBox):
         for p in self.plots.values():
             p.close()
         self.close()
+
+
+def _add_notes(notes: list, *results) -> None:
+    """Append the ``notes`` of what-if results (scope notes from the engine), each once."""
+    for r in results:
+        for n in getattr(r, "notes", None) or ():
+            n = " ".join(str(n).split()).rstrip(".")
+            if n and n not in notes:
+                notes.append(n)

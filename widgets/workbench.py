@@ -157,7 +157,7 @@ class Workbench(WorkbenchViews, ipw.VBox):
         self.temperature.label.value = "<span title='temperature'>chosen temperature [K]</span>"
         self.temperature.add_class(css("temperature"))
 
-        self.data_panel = DataPanel(self._set_data, self.messages)
+        self.data_panel = DataPanel(self._set_data, self.messages, on_series=self._set_series)
         self.material_panel = MaterialPanel(self._material_model, self.messages,
                                             material=_engine.material_of(self.full_model),
                                             split=len(self.full_model.branches) > 1)
@@ -212,7 +212,7 @@ class Workbench(WorkbenchViews, ipw.VBox):
         header = ipw.HBox([title, readout_box], layout=ipw.Layout(flex_flow="row wrap", align_items="center"))
         super().__init__([header, self.messages.output, main, keyboard_helper()])
         self.add_class(css("workbench"))
-        self.data_panel.show(self.data)
+        self.data_panel.show(self.data, self.state.series)
         self._sync_electronic()
 
     def _build_cards(self):
@@ -322,10 +322,19 @@ class Workbench(WorkbenchViews, ipw.VBox):
     def _set_data(self, ds) -> None:
         with self._lock:
             self.state.set_data(ds)
-            self._band = None  # the last fit's band belongs to the previous data
-            self.data_panel.show(ds)
-            self._sync_electronic()
-            self.refresh()
+            self._data_changed()
+
+    def _set_series(self, series, index: int = 0) -> None:
+        """Use several samples (kept in the state); sample ``index`` is the one being fitted."""
+        with self._lock:
+            self.state.set_series(series, index)
+            self._data_changed()
+
+    def _data_changed(self):
+        self._band = None  # the last fit's band belongs to the previous data
+        self.data_panel.show(self.data, self.state.series)
+        self._sync_electronic()
+        self.refresh()
 
     def _sync_electronic(self):
         self.electronic_panel.sync(self.data, self.muted)
