@@ -152,8 +152,8 @@ def test_from_diffusivity_with_quantities():
                              r"with 2000 kg/m\^3 given by line 1"),
     (HDR + BASE, {"density": "2.5 g/cm^3"}, r"^f\.csv, line 1: density 2000 kg/m\^3 disagrees "
                                             r"with 2500 kg/m\^3 given by the option density="),
-    (HDR + BASE, {"density": "2 g/cm^3", "heat_capacity": "debye", "material": "Si"},
-     r"heat capacity given as values \(header\) and as the model"),
+    (HDR.replace("# cp: 0.5 J/(g K)", "# cp: debye") + "T [K], D [mm^2/s], cp [J/(g K)]\n300, 4.0, 0.5\n",
+     {"density": "2 g/cm^3", "material": "Si"}, r"heat capacity given as values \(column\) and as the model"),
     (BASE, {"density": 2, "heat_capacity": 500}, r"^f\.csv, option density=: 2 kg/m\^3 is no "
                                                  r"density of a solid.*g/cm\^3"),
     (BASE, {"density": 2000, "heat_capacity": "0.5 J/(g K"}, r"option heat_capacity=: unit "
@@ -172,6 +172,18 @@ def test_bad_input_one_line(text, opts, pattern):
     with pytest.raises((DataError, ParameterError), match=pattern) as info:
         parse_data(text, name="f.csv", **opts)
     assert "\n" not in str(info.value)
+
+
+def test_an_explicit_model_choice_replaces_the_files_cp_and_says_by_how_much():
+    # The user's option heat_capacity="debye" wins over the file's measured c_p (a header line here):
+    # k is the Debye-c_p value, and a note gives the change against the measured c_p.
+    ds = parse_data(HDR + BASE, name="f.csv", density="2 g/cm^3", heat_capacity="debye", material="Si")
+    plain = parse_data(HDR + BASE, name="f.csv", density="2 g/cm^3")
+    assert ds.heat_capacity_choice == "debye"
+    ratio = ds.kappa / plain.kappa
+    np.testing.assert_allclose(ratio, ds.heat_capacity / plain.heat_capacity, rtol=1e-12)  # k = D rho c_p
+    note = [n for n in ds.notes if "chosen over the file's measured c_p" in n]
+    assert len(note) == 1 and f"{100 * (ratio.min() - 1):+.1f} %" in note[0]
 
 
 def test_flash_options_on_a_kappa_file_are_refused():

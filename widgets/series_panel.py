@@ -142,8 +142,10 @@ class FlashOptions(ipw.Accordion):
                 out["material"] = self.material.value
         elif cp == "value" and self.cp_value.value.strip():
             out["heat_capacity"] = f"{self.cp_value.value.strip()} {self.cp_unit.value}"
-        if "heat_capacity" in out:
-            out["ignore_columns"] = list(_CP_COLUMNS)  # the chosen c_p replaces a c_p column
+        if cp == "value" and "heat_capacity" in out:
+            # a typed c_p replaces a c_p column (a chosen model does so in the loader itself, with a
+            # note on how much k moves)
+            out["ignore_columns"] = list(_CP_COLUMNS)
         if self.density.value.strip():
             out["density"] = f"{self.density.value.strip()} {self.density_unit.value}"
         if self.relative_density.value.strip():

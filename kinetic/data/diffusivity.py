@@ -262,11 +262,19 @@ def kappa_from_diffusivity(*, name: str, temperature: np.ndarray, diffusivity: n
             raise DataError(f'{name}, line {cp_header[1]}: "# cp: {model}" disagrees with the '
                             f"option heat_capacity={heat_capacity!r}; expected one choice")
         model, cp_option_val = heat_capacity.strip().lower(), None
+        explicit_model = True
+    else:
+        explicit_model = False
     cp, cp_from = _one_source("heat_capacity", cp_column, cp_header_val, cp_option_val, name,
                               lambda i: col_where("heat_capacity", i), "heat capacity")
+    replaced = None
     if cp is not None and model is not None:
-        raise DataError(f"{name}: heat capacity given as values ({cp_from}) and as the model "
-                        f'"{model}"; expected one of them')
+        if not explicit_model:
+            raise DataError(f"{name}: heat capacity given as values ({cp_from}) and as the model "
+                            f'"{model}"; expected one of them')
+        # the user's explicit choice (option heat_capacity="dulong-petit"|"debye") wins over the
+        # file's measured values, and says so below with how much k moves
+        replaced, cp = (np.broadcast_to(cp, T.shape).astype(float), cp_from), None
     if model is not None:
         if mat is None:
             raise DataError(f'{name}: the {model} heat capacity needs the material; expected a '
@@ -277,6 +285,11 @@ def kappa_from_diffusivity(*, name: str, temperature: np.ndarray, diffusivity: n
             raise DataError(f"{name}: {exc}") from None
         choice = model
         notes.append(f"heat capacity: {model} value for {mat}")
+        if replaced is not None:
+            ratio = np.broadcast_to(cp, T.shape) / replaced[0]
+            notes.append(f"heat capacity: the {model} value was chosen over the file's measured c_p "
+                         f"({replaced[1]}); k differs from the measured-c_p k by "
+                         f"{100 * (float(np.min(ratio)) - 1):+.1f} % to {100 * (float(np.max(ratio)) - 1):+.1f} %")
     elif cp is None:
         raise DataError(
             f'{name}: no heat capacity for k = D rho c_p; expected a "cp" column, a '
