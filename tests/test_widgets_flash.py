@@ -159,7 +159,7 @@ def test_porosity_correction_and_relative_density_give_the_loaders_k(wb):
     assert dp.load_bytes(PLAIN, "plain.csv") is None and "no relative density" in dp.error.value
     assert wb.data.porosity_correction == "maxwell-eucken"
     # a typed relative density on a file without one
-    dp.flash.porosity.value = None
+    dp.flash.porosity.value = "none"
     assert dp.load_bytes(PLAIN, "plain.csv") is not None
     dp.flash.relative_density.value = "0.9"
     dp.flash.porosity.value = "dem"

@@ -62,11 +62,11 @@ class FlashOptions(ipw.Accordion):
                                      value=None, description=_label("material"), **_wide())
         self.material.tooltip = "material: the preset whose Dulong-Petit or Debye c_p is used"
         self.cp_value = ipw.Text(value="", placeholder="e.g. 0.8", description="c_p value",
-                                 style={"description_width": "11em"}, layout=ipw.Layout(width="16em"))
+                                 style={"description_width": "13.5em"}, layout=ipw.Layout(width="18.5em"))
         self.cp_unit = ipw.Dropdown(options=_CP_UNITS, value=_CP_UNITS[0], layout=ipw.Layout(width="8em"))
         self.cp_unit.tooltip = "unit of the typed heat capacity"
         self.density = ipw.Text(value="", placeholder="from the file", description=_label("density"),
-                                style={"description_width": "11em"}, layout=ipw.Layout(width="16em"))
+                                style={"description_width": "13.5em"}, layout=ipw.Layout(width="18.5em"))
         self.density.tooltip = "density: mass density of the sample as measured (empty: from the file)"
         self.density_unit = ipw.Dropdown(options=_RHO_UNITS, value=_RHO_UNITS[0], layout=ipw.Layout(width="8em"))
         self.density_unit.tooltip = "unit of the typed density"
@@ -75,8 +75,9 @@ class FlashOptions(ipw.Accordion):
         self.relative_density.tooltip = ("relative_density: pellet density / full density, in (0, 1] "
                                           "(empty: from the file)")
         self._relations = _engine.porosity_relations()
-        self.porosity = ipw.Dropdown(options=[("none (k of the sample as measured)", None)]
-                                     + [(n, n) for n in self._relations], value=None,
+        # "none" is a real option value: a Dropdown whose value is None shows an empty box
+        self.porosity = ipw.Dropdown(options=[("none (k of the sample as measured)", "none")]
+                                     + [(n, n) for n in self._relations], value="none",
                                      description=_label("porosity_correction"), **_wide())
         self.porosity_hint = ipw.HTML()
         d = _engine.DEFAULT_RELATIVE_ERRORS
@@ -115,7 +116,7 @@ class FlashOptions(ipw.Accordion):
         self.material.layout.display = "" if cp in _engine.HEAT_CAPACITY_MODELS else "none"
         self._cp_row.layout.display = "" if cp == "value" else "none"
         rel = self.porosity.value
-        if rel is None:
+        if rel == "none":
             text = "k stays that of the sample as measured."
             tip = "porosity_correction: none"
         else:
@@ -150,7 +151,7 @@ class FlashOptions(ipw.Accordion):
             out["density"] = f"{self.density.value.strip()} {self.density_unit.value}"
         if self.relative_density.value.strip():
             out["relative_density"] = self.relative_density.value.strip()
-        if self.porosity.value is not None:
+        if self.porosity.value != "none":
             out["porosity_correction"] = self.porosity.value
         for option, w in self.errors.items():
             text = w.value.strip()
@@ -207,7 +208,7 @@ class SampleChooser(ipw.Dropdown):
 
 def _wide() -> dict:
     """Style and a layout of its own (a shared layout would hide every control that uses it)."""
-    return {"style": {"description_width": "11em"}, "layout": ipw.Layout(width="21em")}
+    return {"style": {"description_width": "13.5em"}, "layout": ipw.Layout(width="23em")}
 
 
 def _html(text) -> str:

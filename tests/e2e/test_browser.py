@@ -190,6 +190,19 @@ def _layout_check(page, label: str):
                 _section(page, section)
             truncated = page.evaluate(_TRUNCATED, wb.element_handle())
             assert truncated == [], (label, tab, section, truncated)
+            if section == "Measured data":  # the folded "Flash data (diffusivity)" section inside it
+                header = page.locator(".kinetic-flash-options .jupyter-widget-Collapse-header").first
+                if "jupyter-widget-Collapse-open" not in (header.evaluate("h => h.parentElement.className") or ""):
+                    header.click()  # open it (it stays open from an earlier layout check)
+                page.wait_for_timeout(300)
+                page.screenshot(path=str(ARTIFACTS / f"flash-section-{label}.png"))
+                truncated = page.evaluate(_TRUNCATED, wb.element_handle())
+                assert truncated == [], (label, "flash data", truncated)
+                box = page.evaluate("""() => {
+                    const f = document.querySelector('.kinetic-flash-options');
+                    const w = document.querySelector('.kinetic-work');
+                    return [f.getBoundingClientRect().right, w.getBoundingClientRect().right]; }""")
+                assert box[0] <= box[1] + 1, (label, "flash section wider than the work area", box)
 
 
 def test_workbench_in_a_real_browser(page, lab):
