@@ -108,12 +108,12 @@ class _BranchNodes:
         sine = branch.dispersion == "sine"
         u_hi = (2.0 / np.pi) * np.arcsin(r) if sine else r
         _, weights, exp_off = quad._RULES[branch.dispersion]
-        u = u_hi[:, None] * exp_off[None, :]
         pref = branch.polarizations * branch.q_max**3 * kB / (6.0 * np.pi**2)
         # wbase = weight * pref * v_g^2 * Planck * u^2, with weight = rule weight * u (du = u ds)
-        wbase = u * u
-        wbase *= u
         if sine:
+            u = u_hi[:, None] * exp_off[None, :]
+            wbase = u * u
+            wbase *= u
             omega = branch.omega_of_u(u)
             vg = branch.group_velocity_of_u(u)
             wbase *= vg
@@ -122,14 +122,18 @@ class _BranchNodes:
             x = omega * (hbar / kB)
             x /= T[:, None]
             _planck_on_nodes(x)
+            wbase *= x
         else:
-            wbase *= (pref * branch.velocity**2 * weights)[None, :]
-            buf = _scratch(u.shape)
-            x = np.multiply(u, x_max[:, None], out=buf[0])
-            omega = u
-            omega *= branch.omega_max
-            _planck_on_nodes(x, buf[1])
-        wbase *= x
+            # Debye: u = u_hi(T) e_j and x = u x_max factor into a column and a row, so
+            # wbase = u_hi^3 (pref v^2 w_j e_j^3) ((x/2) / sinh(x/2))^2 is one outer
+            # product, one sinh and four in-place passes (no 2-D u, u^3 or x kept)
+            h = np.multiply.outer(0.5 * u_hi * x_max, exp_off, out=_scratch((T.size, exp_off.size))[0])
+            wbase = np.sinh(h)
+            np.divide(h, wbase, out=wbase)
+            np.multiply(wbase, wbase, out=wbase)
+            wbase *= (pref * branch.velocity**2 * weights * exp_off**3)[None, :]
+            wbase *= (u_hi**3)[:, None]
+            omega = np.multiply.outer(branch.omega_max * u_hi, exp_off)
         self.branch = branch
         self.T = T
         self.u_hi = u_hi
