@@ -74,6 +74,27 @@ def _scratch(shape) -> np.ndarray:
     return buf
 
 
+_TILES: dict = {}
+
+
+def _row_tile(weights, exp_off, n_T: int) -> np.ndarray:
+    """w_j e_j^3 of a Debye rule repeated on n_T rows (read-only, kept per rule and size).
+
+    A product with a full contiguous array is several times faster than one
+    broadcast along rows on these shapes.
+    """
+    key = (id(weights), n_T)
+    hit = _TILES.get(key)
+    if hit is not None and hit[0] is weights:  # the kept reference keeps the id from being reused
+        return hit[1]
+    tile = np.ascontiguousarray(np.broadcast_to(weights * exp_off**3, (n_T, weights.size)))
+    tile.setflags(write=False)
+    if len(_TILES) >= 8:
+        _TILES.pop(next(iter(_TILES)), None)
+    _TILES[key] = (weights, tile)
+    return tile
+
+
 def _planck_on_nodes(x, tmp=None):
     """x^2 e^x / (e^x - 1)^2 = ((x/2) / sinh(x/2))^2 in place in ``x`` (0 < x <= X_CUT on the nodes).
 
@@ -131,8 +152,8 @@ class _BranchNodes:
             wbase = np.sinh(h)
             np.divide(h, wbase, out=wbase)
             np.multiply(wbase, wbase, out=wbase)
-            wbase *= (pref * branch.velocity**2 * weights * exp_off**3)[None, :]
-            wbase *= (u_hi**3)[:, None]
+            wbase *= _row_tile(weights, exp_off, T.size)
+            wbase *= (pref * branch.velocity**2 * u_hi**3)[:, None]
             omega = np.multiply.outer(branch.omega_max * u_hi, exp_off)
         self.branch = branch
         self.T = T
@@ -311,6 +332,11 @@ def _checked_rate(mech, branch, omega, Tcol):
             f"mechanism {mech.name!r} ({type(mech).__name__}) failed on branch {branch.name!r}: "
             f"{type(exc).__name__}: {exc}"
         ) from exc
+    if r.ndim == 0:
+        # a constant rate (a boundary on a Debye branch): checked as a Python float (no array reductions)
+        if not (0.0 <= float(r) < np.inf):
+            raise ModelError(_describe_bad(mech, branch, r, omega, Tcol))
+        return r
     if r.shape != omega.shape:
         try:
             full = np.broadcast_shapes(r.shape, omega.shape, Tcol.shape)
