@@ -16,7 +16,7 @@ import numpy as np
 from .dispersion import Branch
 from .errors import ModelError, ParameterError
 from .grid import (BLOCK_T, CACHE_RATES, TemperatureGrid, _BranchNodes, _LOCK, _cached_grid, _checked_rate,
-                   _sum_into, _temperature, prepared_grid)
+                   _new_grid, _prepared_checked, _sum_into, _temperature)
 
 #: Mean free path [m] beyond any specimen (the boundary length's upper bound is
 #: 0.1 m); see MAX_LONG_PATH_SHARE.
@@ -158,9 +158,9 @@ class _CallawaySums:
         shape = np.shape(T)
         Tf = np.ascontiguousarray(np.atleast_1d(T), dtype=float).ravel()
         if Tf.size <= BLOCK_T:
-            parts = self._parts_on_grid(prepared_grid(Tf))
+            parts = self._parts_on_grid(_prepared_checked(Tf))
         else:
-            blocks = [self._parts_on_grid(TemperatureGrid(Tf[i:i + BLOCK_T])) for i in range(0, Tf.size, BLOCK_T)]
+            blocks = [self._parts_on_grid(_new_grid(Tf[i:i + BLOCK_T])) for i in range(0, Tf.size, BLOCK_T)]
             parts = {b.name: np.concatenate([blk[b.name] for blk in blocks]) for b in self.branches}
         return {k: v.reshape(shape) for k, v in parts.items()}
 
@@ -239,7 +239,7 @@ class _CallawaySums:
             k = np.concatenate([p[0] for p in pieces])
             J = np.concatenate([p[1] for p in pieces])
             return k.reshape(shape), J.reshape(shape + (len(names),))
-        grid = grid or prepared_grid(Tf)
+        grid = grid or _prepared_checked(Tf)
         J = np.zeros((Tf.size, len(names)))
         analytic = [j for j, n in enumerate(names) if info[n] is not None]
         kappa = np.zeros(Tf.size)

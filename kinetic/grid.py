@@ -240,9 +240,13 @@ class TemperatureGrid:
     """
 
     def __init__(self, temperature):
-        T = np.ascontiguousarray(_temperature(temperature), dtype=float)
+        self._set(np.ascontiguousarray(_temperature(temperature), dtype=float))
+
+    def _set(self, T: np.ndarray) -> None:
         self.shape = T.shape
-        self.temperature = T.ravel()
+        # an own copy: the grid is kept by the array's bytes, so a caller changing its array later must not
+        # change the temperatures of the kept grid
+        self.temperature = np.array(T, dtype=float).ravel()
         self.temperature.setflags(write=False)
         self.Tcol = self.temperature[:, None]
         self._nodes: dict = {}
@@ -290,14 +294,28 @@ def prepared_grid(temperature) -> TemperatureGrid:
     g = _cached_grid(temperature)
     if g is not None:
         return g
-    T = np.ascontiguousarray(_temperature(temperature), dtype=float)
+    return _prepared_checked(np.ascontiguousarray(_temperature(temperature), dtype=float))
+
+
+def _new_grid(T: np.ndarray) -> TemperatureGrid:
+    """A :class:`TemperatureGrid` of a float array already checked finite and > 0 (not checked again)."""
+    g = TemperatureGrid.__new__(TemperatureGrid)
+    g._set(np.ascontiguousarray(T, dtype=float))
+    return g
+
+
+def _prepared_checked(T: np.ndarray) -> TemperatureGrid:
+    """:func:`prepared_grid` of a float array already checked finite and > 0 (the engine's own callers).
+
+    Saves the two repeated validations of the same temperatures on a new grid.
+    """
     if T.size > BLOCK_T:
-        return TemperatureGrid(T)
+        return _new_grid(T)
     key = _key(T)
     with _LOCK:
         g = _GRIDS.get(key)
         if g is None:
-            g = _GRIDS[key] = TemperatureGrid(T)
+            g = _GRIDS[key] = _new_grid(T)
             if len(_GRIDS) > CACHE_GRIDS:
                 _GRIDS.popitem(last=False)
         else:
