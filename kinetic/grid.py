@@ -74,6 +74,27 @@ def _scratch(shape) -> np.ndarray:
     return buf
 
 
+_TILES: dict = {}
+
+
+def _row_tile(weights, exp_off, n_T: int) -> np.ndarray:
+    """w_j e_j^3 of a Debye rule repeated on n_T rows (read-only, kept per rule and size).
+
+    A product with a full contiguous array is several times faster than one
+    broadcast along rows on these shapes.
+    """
+    key = (id(weights), n_T)
+    hit = _TILES.get(key)
+    if hit is not None and hit[0] is weights:  # the kept reference keeps the id from being reused
+        return hit[1]
+    tile = np.ascontiguousarray(np.broadcast_to(weights * exp_off**3, (n_T, weights.size)))
+    tile.setflags(write=False)
+    if len(_TILES) >= 8:
+        _TILES.pop(next(iter(_TILES)), None)
+    _TILES[key] = (weights, tile)
+    return tile
+
+
 def _planck_on_nodes(x, tmp=None):
     """x^2 e^x / (e^x - 1)^2 = ((x/2) / sinh(x/2))^2 in place in ``x`` (0 < x <= X_CUT on the nodes).
 
@@ -108,12 +129,12 @@ class _BranchNodes:
         sine = branch.dispersion == "sine"
         u_hi = (2.0 / np.pi) * np.arcsin(r) if sine else r
         _, weights, exp_off = quad._RULES[branch.dispersion]
-        u = u_hi[:, None] * exp_off[None, :]
         pref = branch.polarizations * branch.q_max**3 * kB / (6.0 * np.pi**2)
         # wbase = weight * pref * v_g^2 * Planck * u^2, with weight = rule weight * u (du = u ds)
-        wbase = u * u
-        wbase *= u
         if sine:
+            u = u_hi[:, None] * exp_off[None, :]
+            wbase = u * u
+            wbase *= u
             omega = branch.omega_of_u(u)
             vg = branch.group_velocity_of_u(u)
             wbase *= vg
@@ -122,14 +143,18 @@ class _BranchNodes:
             x = omega * (hbar / kB)
             x /= T[:, None]
             _planck_on_nodes(x)
+            wbase *= x
         else:
-            wbase *= (pref * branch.velocity**2 * weights)[None, :]
-            buf = _scratch(u.shape)
-            x = np.multiply(u, x_max[:, None], out=buf[0])
-            omega = u
-            omega *= branch.omega_max
-            _planck_on_nodes(x, buf[1])
-        wbase *= x
+            # Debye: u = u_hi(T) e_j and x = u x_max factor into a column and a row, so
+            # wbase = u_hi^3 (pref v^2 w_j e_j^3) ((x/2) / sinh(x/2))^2 is one outer
+            # product, one sinh and four in-place passes (no 2-D u, u^3 or x kept)
+            h = np.multiply.outer(0.5 * u_hi * x_max, exp_off, out=_scratch((T.size, exp_off.size))[0])
+            wbase = np.sinh(h)
+            np.divide(h, wbase, out=wbase)
+            np.multiply(wbase, wbase, out=wbase)
+            wbase *= _row_tile(weights, exp_off, T.size)
+            wbase *= (pref * branch.velocity**2 * u_hi**3)[:, None]
+            omega = np.multiply.outer(branch.omega_max * u_hi, exp_off)
         self.branch = branch
         self.T = T
         self.u_hi = u_hi
@@ -215,9 +240,13 @@ class TemperatureGrid:
     """
 
     def __init__(self, temperature):
-        T = np.ascontiguousarray(_temperature(temperature), dtype=float)
+        self._set(np.ascontiguousarray(_temperature(temperature), dtype=float))
+
+    def _set(self, T: np.ndarray) -> None:
         self.shape = T.shape
-        self.temperature = T.ravel()
+        # an own copy: the grid is kept by the array's bytes, so a caller changing its array later must not
+        # change the temperatures of the kept grid
+        self.temperature = np.array(T, dtype=float).ravel()
         self.temperature.setflags(write=False)
         self.Tcol = self.temperature[:, None]
         self._nodes: dict = {}
@@ -265,14 +294,28 @@ def prepared_grid(temperature) -> TemperatureGrid:
     g = _cached_grid(temperature)
     if g is not None:
         return g
-    T = np.ascontiguousarray(_temperature(temperature), dtype=float)
+    return _prepared_checked(np.ascontiguousarray(_temperature(temperature), dtype=float))
+
+
+def _new_grid(T: np.ndarray) -> TemperatureGrid:
+    """A :class:`TemperatureGrid` of a float array already checked finite and > 0 (not checked again)."""
+    g = TemperatureGrid.__new__(TemperatureGrid)
+    g._set(np.ascontiguousarray(T, dtype=float))
+    return g
+
+
+def _prepared_checked(T: np.ndarray) -> TemperatureGrid:
+    """:func:`prepared_grid` of a float array already checked finite and > 0 (the engine's own callers).
+
+    Saves the two repeated validations of the same temperatures on a new grid.
+    """
     if T.size > BLOCK_T:
-        return TemperatureGrid(T)
+        return _new_grid(T)
     key = _key(T)
     with _LOCK:
         g = _GRIDS.get(key)
         if g is None:
-            g = _GRIDS[key] = TemperatureGrid(T)
+            g = _GRIDS[key] = _new_grid(T)
             if len(_GRIDS) > CACHE_GRIDS:
                 _GRIDS.popitem(last=False)
         else:
@@ -307,6 +350,11 @@ def _checked_rate(mech, branch, omega, Tcol):
             f"mechanism {mech.name!r} ({type(mech).__name__}) failed on branch {branch.name!r}: "
             f"{type(exc).__name__}: {exc}"
         ) from exc
+    if r.ndim == 0:
+        # a constant rate (a boundary on a Debye branch): checked as a Python float (no array reductions)
+        if not (0.0 <= float(r) < np.inf):
+            raise ModelError(_describe_bad(mech, branch, r, omega, Tcol))
+        return r
     if r.shape != omega.shape:
         try:
             full = np.broadcast_shapes(r.shape, omega.shape, Tcol.shape)

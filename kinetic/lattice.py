@@ -178,16 +178,24 @@ class LatticeModel(_CallawaySums):
     def with_params(self, values: Mapping[str, float]) -> "LatticeModel":
         """A new model with some ``"<mechanism>.<param>"`` values replaced."""
         grouped: dict = {}
-        known = self.params
+        mechs = {m.name: m for m in self.scattering}
         for key, v in dict(values).items():
-            if key not in known:
+            mname, _, pname = str(key).partition(".")
+            m = mechs.get(mname)
+            # the keys of self.params, checked without building it (a fit step or slider move calls this)
+            if not (isinstance(key, str) and m is not None and pname in m._spec and getattr(m, pname) is not None):
                 raise ParameterError(
-                    f"unknown parameter {key!r}; valid names: {', '.join(known)}"
+                    f"unknown parameter {key!r}; valid names: {', '.join(self.params)}"
                 )
-            mname, pname = key.split(".", 1)
             grouped.setdefault(mname, {})[pname] = v
         new = tuple(m.with_values(**grouped[m.name]) if m.name in grouped else m for m in self.scattering)
-        return self._replace(scattering=new)
+        # only parameter values changed (names, branches, kinds and applies_to are the same), so every
+        # check of __post_init__ holds as it did for self: build the copy without repeating them
+        out = object.__new__(LatticeModel)
+        for f, val in (("branches", self.branches), ("scattering", new),
+                       ("normal_correction", self.normal_correction), ("material", self.material)):
+            object.__setattr__(out, f, val)
+        return out
 
     def with_mechanism(self, mechanism: Mechanism) -> "LatticeModel":
         """Add a mechanism, or replace the one with the same name."""

@@ -207,7 +207,8 @@ def _power(x, n: float):
     hit = _POWERS.get(key)
     if hit is not None and hit[0] is x:  # the kept reference keeps the id from being reused
         return hit[1]
-    out = _raw_power(x, n)
+    # x^4 as (x^2)^2 from the kept x^2 (shared with the omega^2 rates): one pass, same rounding as _raw_power
+    out = _power(x, 2.0) ** 2 if n == 4.0 else _raw_power(x, n)
     out.setflags(write=False)
     if len(_POWERS) >= 24:
         _POWERS.pop(next(iter(_POWERS)), None)
