@@ -14,7 +14,7 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from kinetic import Boundary, Branch, LatticeModel, demo
-from kinetic.conductivity import (LORENZ_RANGE, BipolarTerm, ConductivityModel, ConductivityParts, ElectronicTerm,
+from kinetic.conductivity import (LORENZ_LABELS, LORENZ_RANGE, BipolarTerm, ConductivityModel, ConductivityParts, ElectronicTerm,
                                   LatticeTarget, lattice_target)
 from kinetic.data import Dataset
 from kinetic.electronic import bipolar_kappa_activated, bipolar_kappa_two_band, lattice_from_total
@@ -133,7 +133,7 @@ def test_lattice_target_matches_the_electronic_subtraction(demo_ds, lorenz):
     np.testing.assert_array_equal(tgt.kappa, lt.kappa_lattice)
     np.testing.assert_array_equal(tgt.kappa_err, lt.kappa_lattice_err)
     np.testing.assert_array_equal(tgt.measured_err, demo_ds.kappa_err)
-    assert tgt.notes[-1] == f"sample A: electronic part L*sigma*T subtracted (Lorenz method {method!r})"
+    assert tgt.notes[-1] == f"sample A: electronic part L\u03c3T subtracted (Lorenz number: {LORENZ_LABELS[method]})"
     assert tgt.kappa_bipolar is None
 
 

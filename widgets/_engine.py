@@ -41,6 +41,7 @@ from kinetic import defaults as _defaults
 from kinetic import fit as _fit
 from kinetic import porosity as _porosity
 from kinetic._io import atomic_write as _atomic_write
+from kinetic.conductivity import LORENZ_LABELS
 from kinetic.data.diffusivity import DEFAULT_RELATIVE_ERRORS
 from kinetic.data.options import LOADER_OPTIONS
 from kinetic.heat_capacity import HEAT_CAPACITY_MODELS
@@ -56,6 +57,7 @@ __all__ = [
     "FitError",
     "FitResult",
     "KineticError",
+    "LORENZ_LABELS",
     "LatticeModel",
     "Parameter",
     "ParameterError",

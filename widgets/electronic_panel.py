@@ -16,13 +16,8 @@ from .style import css
 
 __all__ = ["LORENZ_METHODS", "ElectronicPanel"]
 
-#: Lorenz-number choices: plain words, the engine's key in the tooltip of the dropdown
-LORENZ_METHODS = (
-    ("automatic: band model if Seebeck is measured", "auto"),
-    ("Sommerfeld value L\u2080 (degenerate)", "sommerfeld"),
-    ("band model from Seebeck", "spb"),
-    ("Kim et al. formula from Seebeck", "kim"),
-)
+#: Lorenz-number choices: the engine's plain words, its key in the tooltip of the dropdown
+LORENZ_METHODS = tuple((_engine.LORENZ_LABELS[k], k) for k in ("auto", "sommerfeld", "spb", "kim"))
 
 
 class ElectronicPanel(ipw.VBox):

@@ -14,7 +14,6 @@ from __future__ import annotations
 
 import logging
 import math
-import re
 import threading
 
 import ipywidgets as ipw
@@ -372,7 +371,7 @@ class FitPanel(ipw.VBox):
         if warn:
             html += ("<ul style='color:#b00020;font-size:88%;margin:4px 0'>"
                      + "".join(f"<li>{w}</li>" for w in warn) + "</ul>")
-        notes = [_plain_note(n) for n in list(res.flags.notes) + list(getattr(res, "notes", []) or [])]
+        notes = [str(n) for n in list(res.flags.notes) + list(getattr(res, "notes", []) or [])]
         if notes:
             html += "<div style='color:#555;font-size:85%'>" + "<br>".join(esc(n) for n in notes) + "</div>"
         return html
@@ -400,16 +399,6 @@ class FitPanel(ipw.VBox):
         for r in self._all_rows.values():
             r.widget.close()
         self.close()
-
-
-def _plain_note(note: str) -> str:
-    """The engine's note with Lorenz-method code keys in the workbench's plain words."""
-    from .electronic_panel import LORENZ_METHODS
-
-    words = {key: label for label, key in LORENZ_METHODS}
-    note = re.sub(r"Lorenz method '(\w+)'", lambda m: f"Lorenz number: {words.get(m.group(1), m.group(1))}",
-                  str(note))
-    return note.replace("L*sigma*T", "L\u03c3T")
 
 
 def _cancelled_early(exc) -> bool:

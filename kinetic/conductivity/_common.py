@@ -5,17 +5,17 @@ import numpy as np
 
 from ..electronic import L0
 from ..errors import ParameterError
-
 from ..quantities import is_quantity, to_si
 
 #: Lorenz-number choices by name ("band" and "spb" are the same single-parabolic-band value from S).
 LORENZ_CHOICES = ("auto", "sommerfeld", "band", "spb", "kim")
 #: Plain words for the Lorenz-number choices (code key -> label), for menus and reports.
 LORENZ_LABELS = {
-    "auto": "automatic: single band from S when S is measured, else Sommerfeld",
-    "sommerfeld": "Sommerfeld value L\u2080 (degenerate carriers)",
-    "spb": "single parabolic band, from the Seebeck coefficient",
-    "kim": "Kim et al. (2015) formula, from the Seebeck coefficient",
+    "auto": "automatic: band model if Seebeck is measured",
+    "sommerfeld": "Sommerfeld value L\u2080 (degenerate)",
+    "spb": "band model from Seebeck",
+    "kim": "Kim et al. formula from Seebeck",
+    "given": "given value",
 }
 #: A given Lorenz number must lie in [L0/10, 10 L0]: the band model spans 0.30-2.43 L0 for scattering
 #: exponents -1 < lambda <= 6 ((2 + lambda)(kB/e)^2, computed) and room-temperature metals 0.86-0.98 L0

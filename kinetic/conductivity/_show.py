@@ -5,6 +5,8 @@ import html
 
 import numpy as np
 
+from ._common import LORENZ_LABELS
+
 #: rows shown in full up to this many temperatures; beyond, the first and last few
 _FULL_ROWS = 12
 _EDGE_ROWS = 5
@@ -40,12 +42,10 @@ def _cell(vals, errs, i) -> str:
 
 
 #: plain words for the Lorenz-number choices
-_LORENZ_WORDS = {"sommerfeld": "Sommerfeld value L0", "spb": "single parabolic band from S",
-                 "kim": "Kim et al. formula from S", "given": "given value"}
 
 
 def _title(p) -> str:
-    extra = f", Lorenz number: {_LORENZ_WORDS.get(p.lorenz_method, p.lorenz_method)}" if p.lorenz_method else ""
+    extra = f", Lorenz number: {LORENZ_LABELS.get(p.lorenz_method, p.lorenz_method)}" if p.lorenz_method else ""
     return f"ConductivityParts: {np.size(p.temperature)} temperature(s){extra}"
 
 

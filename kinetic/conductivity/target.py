@@ -8,7 +8,7 @@ import numpy as np
 from ..data import Dataset
 from ..electronic import lattice_from_total
 from ..errors import DataError, ParameterError
-from ._common import _electronic_flag, _lorenz_spec
+from ._common import LORENZ_LABELS, _electronic_flag, _lorenz_spec
 from .terms import BipolarTerm
 
 __all__ = ["LatticeTarget", "lattice_target", "ElectronicOptions", "electronic_options"]
@@ -107,8 +107,9 @@ def lattice_target(dataset, *, lorenz="auto", electronic=True, bipolar: BipolarT
     tgt = _drop_nonpositive(name, T, kl, np.asarray(lt.kappa_lattice_err), err, np.asarray(lt.kappa_electronic),
                             np.asarray(lt.kappa_electronic_err), np.asarray(lt.lorenz), kb, notes,
                             f"Lorenz method {lt.method!r}")
-    what = "L*sigma*T" + (" and the bipolar part" if kb is not None else "")
-    return replace(tgt, notes=tgt.notes + (f"{name}: electronic part {what} subtracted (Lorenz method {lt.method!r})",))
+    what = "L\u03c3T" + (" and the bipolar part" if kb is not None else "")
+    words = LORENZ_LABELS.get(lt.method, lt.method)
+    return replace(tgt, notes=tgt.notes + (f"{name}: electronic part {what} subtracted (Lorenz number: {words})",))
 
 
 def _drop_nonpositive(name, T, kl, kl_err, meas_err, ke, ke_err, L, kb, notes, how) -> LatticeTarget:

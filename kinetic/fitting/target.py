@@ -8,7 +8,8 @@ resistivity (Wiedemann-Franz with the chosen Lorenz number).
 from __future__ import annotations
 
 from collections.abc import Mapping
-from ..conductivity import LatticeTarget
+
+from ..conductivity import LORENZ_CHOICES, LatticeTarget
 from ..conductivity import lattice_target as _chain_target
 from ..data import Dataset
 from ..errors import DataError, ParameterError
@@ -25,7 +26,7 @@ __all__ = [
 ]
 
 #: Lorenz-number methods accepted for the electronic subtraction.
-LORENZ_METHODS = ("auto", "sommerfeld", "spb", "kim")
+LORENZ_METHODS = LORENZ_CHOICES  # the conductivity chain's choices ("band" is an alias of "spb")
 #: Choices of ``electronic=`` in :func:`lattice_target` and the fit functions.
 ELECTRONIC_CHOICES = ("auto", "none")
 
