@@ -98,9 +98,8 @@ def debye(material, temperature) -> np.ndarray:
     The temperature dependence is the engine's :meth:`LatticeModel.heat_capacity`
     for the material's averaged Debye branch, whose Debye temperature is
     hbar v_D q_D / kB (exactly 3 modes per atom; within 0.5 % of the preset's
-    tabulated value). The value is normalised to 3 N k_B at high temperature
-    (the engine's value at 1000 theta_D, where the Debye function differs from
-    1 by 5e-8), so that it tends to :func:`dulong_petit` for T >> theta_D.
+    tabulated value), so per atom it tends to 3 k_B, and per mass to
+    :func:`dulong_petit`, for T >> theta_D.
     """
     mat = _material(material)
     T = np.asarray(temperature, dtype=float)
@@ -109,7 +108,7 @@ def debye(material, temperature) -> np.ndarray:
     # the boundary term only makes the model valid; it does not enter C_V
     model = LatticeModel(mat.branches(), [Boundary(1e-3)], material=mat.name)
     c_v = np.asarray(model.heat_capacity(T), dtype=float)             # [J m^-3 K^-1]
-    c_inf = float(model.heat_capacity(1000.0 * mat.branches()[0].debye_temperature))
+    c_inf = 3.0 * constants.k / mat.volume_per_atom                    # 3 n kB: the branch's 3 modes per atom
     return c_v / c_inf * dulong_petit(mat)
 
 
