@@ -37,6 +37,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from ._io import atomic_write
+from ._progress import TextBar
 from ._validate import callable_or_none, integer, temperatures
 from .errors import KineticError, ParameterError
 
@@ -258,24 +259,16 @@ def _fit_task(task):
 # many samples
 # ------------------------------------------------------------------------------
 
-class _Bar:
+class _Bar(TextBar):
     """``fit: 3/10 [#########.....]`` on stderr."""
 
     def __init__(self, total, stream=None, width=30):
-        self.total, self.stream, self.width = total, stream or sys.stderr, width
-        self.shown = False
+        super().__init__(stream, width)
+        self.total = total
 
     def __call__(self, done, total, row):
-        k = int(round(self.width * done / max(total, 1)))
         failed = "" if row is None or row["status"] == "ok" else f"  (failed: {row['label']})"
-        self.stream.write(f"\rfit: {done}/{total} [{'#' * k}{'.' * (self.width - k)}]{failed}\033[K")
-        self.stream.flush()
-        self.shown = True
-
-    def close(self):
-        if self.shown:
-            self.stream.write("\n")
-            self.stream.flush()
+        self.show(done, total, "fit: ", failed)
 
 
 def _progress_callback(progress, total):

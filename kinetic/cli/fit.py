@@ -9,6 +9,7 @@ from __future__ import annotations
 import os
 import sys
 
+from .._progress import TextBar
 from ..errors import ParameterError
 from ._args import (
     OPTION_OF,
@@ -286,25 +287,13 @@ def _run_batch(args) -> int:
     return 0
 
 
-class _StartsBar:
+class _StartsBar(TextBar):
     """Progress of the multi-start fit on stderr: ``fit: start i/n [###...]``."""
 
     def __init__(self, enabled, stream=None, width=30):
+        super().__init__(stream, width)
         self.enabled = enabled
-        self.stream = stream or sys.stderr
-        self.width = width
-        self.shown = False
 
     def __call__(self, i, n, best):
-        if not self.enabled:
-            return
-        k = int(round(self.width * i / n))
-        cost = "" if best is None else f"  best chi2/2 = {best:.4g}"
-        self.stream.write(f"\rfit: start {i}/{n} [{'#' * k}{'.' * (self.width - k)}]{cost}")
-        self.stream.flush()
-        self.shown = True
-
-    def close(self):
-        if self.shown:
-            self.stream.write("\n")
-            self.stream.flush()
+        if self.enabled:
+            self.show(i, n, "fit: start ", "" if best is None else f"  best chi2/2 = {best:.4g}")
