@@ -11,7 +11,6 @@ from __future__ import annotations
 
 import functools
 import os
-from dataclasses import dataclass, field
 from typing import NamedTuple
 
 import numpy as np
@@ -61,7 +60,6 @@ __all__ = [
     "LatticeModel",
     "Parameter",
     "ParameterError",
-    "Parts",
     "Record",
     "RecordError",
     "atomic_write",
@@ -178,23 +176,6 @@ def new_mechanism(kind: str, material=None):
 
 # ---------------------------------------------------------------------------------------
 # the conductivity chain
-@dataclass
-class Parts:
-    """Parts of the conductivity [W m^-1 K^-1] at temperatures [K] (None where absent).
-
-    Mirrors ``kinetic.conductivity.ConductivityParts``. ``electronic`` and the
-    total that includes it exist only at ``electronic_temperature`` (the
-    measured points with a resistivity).
-    """
-    temperature: np.ndarray
-    lattice: np.ndarray
-    bipolar: np.ndarray | None = None
-    electronic: np.ndarray | None = None
-    electronic_temperature: np.ndarray | None = None
-    measured_lattice: np.ndarray | None = None
-    notes: list = field(default_factory=list)
-
-
 def bipolar_parameters() -> dict:
     """``"bipolar.<name>"`` -> :class:`kinetic.Parameter` of the bipolar term."""
     return dict(_conductivity.BipolarTerm.activated().parameters)
@@ -216,18 +197,24 @@ def electronic_split(data, lorenz_method: str):
     return Split(t.temperature, np.asarray(t.kappa_electronic, float), np.asarray(t.kappa, float), t.kept)
 
 
-def conductivity_parts(model, temperature, *, bipolar: dict | None = None) -> Parts:
-    """Lattice (+ bipolar) parts of the model at ``temperature`` [K].
+def conductivity_parts(model, temperature, *, bipolar: dict | None = None, data=None, lorenz_method="auto"):
+    """The engine's :class:`kinetic.conductivity.ConductivityParts` of the model at ``temperature`` [K].
 
-    ``bipolar``: ``{"bipolar.prefactor": C, "bipolar.band_gap": Eg}`` or None.
+    ``bipolar``: ``{"bipolar.prefactor": C, "bipolar.band_gap": Eg, ...}`` or None.
+    ``data``: a measured total with a resistivity adds the electronic part
+    (Wiedemann-Franz with ``lorenz_method``); beyond the measured range the
+    electronic part and the total are NaN. The parts are added by the engine's
+    one conductivity chain, never here.
     """
     T = np.asarray(temperature, dtype=float)
     bp = None
     if bipolar is not None:
         bp = _conductivity.BipolarTerm("activated", {k.split(".", 1)[1]: v for k, v in bipolar.items()})
-    p = _conductivity.ConductivityModel(model, bipolar=bp).parts(T)
-    return Parts(T, np.asarray(p.lattice, float), None if bp is None else np.asarray(p.bipolar, float),
-                 notes=list(p.notes))
+    if data is not None and data.kind == "total" and data.resistivity is not None:
+        chain = _conductivity.ConductivityModel.from_dataset(model, data, lorenz=lorenz_method, bipolar=bp)
+    else:
+        chain = _conductivity.ConductivityModel(model, bipolar=bp)
+    return chain.parts(T, outside="nan")
 
 
 def cahill_minimum(material, temperature):

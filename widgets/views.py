@@ -49,25 +49,30 @@ class WorkbenchViews:
             cached[key] = _engine.cahill_minimum(self.material, T)
         return cached[key]
 
-    def parts(self, temperature):
-        """The engine's conductivity parts of the model in use (with the bipolar part if on)."""
-        return _engine.conductivity_parts(self.model, temperature, bipolar=self.electronic_panel.bipolar())
+    def parts(self, temperature, *, electronic: bool = False):
+        """The engine's conductivity parts of the model in use (with the bipolar part if on).
+
+        ``electronic=True`` adds the data's electronic part (when the split is on):
+        the chain's total is then lattice + electronic + bipolar.
+        """
+        data = self.data if electronic and self.electronic() is not None else None
+        return _engine.conductivity_parts(self.model, temperature, bipolar=self.electronic_panel.bipolar(),
+                                          data=data, lorenz_method=self.lorenz_choice.value)
 
     def _readouts(self):
         T0 = float(self.temperature.value)
-        p = self.parts(np.array([T0]))
+        T1 = np.array([T0])
+        p = self.parts(T1)
         k0 = float(p.lattice[0])
-        el = self.electronic()
-        ke0 = None
-        if el is not None and el[0].min() <= T0 <= el[0].max():
-            ke0 = float(np.interp(T0, el[0], el[1]))  # between measured points, as plotted
-        kb0 = None if p.bipolar is None else float(p.bipolar[0])
+        pe = self.parts(T1, electronic=True) if self.electronic() is not None else None
+        ke0 = float(pe.electronic[0]) if pe is not None and np.isfinite(pe.electronic[0]) else None
+        kb0 = float(p.bipolar[0]) if p.has_bipolar else None
         r = self.readouts
         r["temperature"].value = f"At <b>{fmt(T0)} K</b>:"
         r["lattice"].value = f"lattice \u03ba = <b>{fmt(k0)}</b> {_W}"
         r["electronic"].value = "" if ke0 is None else f"electronic \u03ba = {fmt(ke0)} {_W}"
         r["bipolar"].value = "" if kb0 is None else f"bipolar \u03ba = {fmt(kb0)} {_W}"
-        total = None if ke0 is None and kb0 is None else k0 + (ke0 or 0.0) + (kb0 or 0.0)
+        total = float(pe.total[0]) if ke0 is not None else (float(p.total[0]) if kb0 is not None else None)
         r["total"].value = "" if total is None else f"total \u03ba = <b>{fmt(total)}</b> {_W}"
         fl = self.floor(T0)
         r["floor"].value = "" if fl is None else (
@@ -98,12 +103,11 @@ class WorkbenchViews:
             if el is not None:
                 Td, ke, kl, _ = el
                 parts["electronic"] = (Td, ke)
-                pd = self.parts(Td)
-                parts["total"] = (Td, pd.lattice + ke + (0.0 if pd.bipolar is None else pd.bipolar))
+                parts["total"] = (Td, self.parts(Td, electronic=True).total)
                 measured_lattice = (Td, kl)
-        if p.bipolar is not None:
+        if p.has_bipolar:
             parts["bipolar"] = (T, p.bipolar)
-            parts.setdefault("total", (T, p.lattice + p.bipolar))
+            parts.setdefault("total", (T, p.total))
         samples, colour = [], None
         series = self.state.series
         if len(series) > 1:  # every sample of the series, one colour each; the fitted one is "measured"
