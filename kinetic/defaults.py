@@ -35,7 +35,7 @@ from scipy.constants import atomic_mass as _U
 from . import materials
 from .errors import ParameterError
 from .lattice import LatticeModel
-from .presets import PRESETS, TABLE_STATUS
+from .presets import PRESETS, calibration_record
 from .scattering import Boundary, Normal, PointDefect, Umklapp
 
 __all__ = [
@@ -134,15 +134,10 @@ def calibration(material) -> Calibration | None:
     if key is None:
         return None
     p = PRESETS[key]
-    cal = p.get("calibration")
-    model = _model_value(key, p)
-    if not cal or cal.get("value") is None or model is None:
+    rec = calibration_record(p, key)  # the one reading of the preset fields (also kinetic materials)
+    if rec is None:
         return None
-    v = cal["value"]
-    return Calibration(material=key, source=cal.get("source", ""), table=v["table"], t_min=float(v["t_min"]),
-                       t_max=float(v["t_max"]), rms=float(v["rms"]), n_points=int(v["n_points"]),
-                       sample=v.get("sample", ""), how=cal.get("how", ""), model=dict(model),
-                       table_status=TABLE_STATUS.get(key, "from memory"))
+    return Calibration(material=key, how=p["calibration"].get("how", ""), model=dict(_model_value(key, p)), **rec)
 
 
 def _mechanism(kind: str, params: Mapping, mat) -> object:

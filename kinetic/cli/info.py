@@ -30,26 +30,10 @@ def _value(preset, field):
 
 
 def preset_calibration(preset, name=None) -> dict | None:
-    """The calibration of one preset table as a dict, or None when it has no calibrated model.
+    """The calibration of one preset table (:func:`kinetic.presets.calibration_record`: plain data)."""
+    from ..presets import calibration_record
 
-    Keys: source, table, t_min [K], t_max [K], rms (relative, a fraction),
-    n_points, sample. A preset is calibrated when it carries both a
-    ``"calibration"`` record and a calibrated ``"model"`` (or ``"model_avg"``).
-    """
-    cal = preset.get("calibration")
-    has_model = any(isinstance(preset.get(f), dict) and preset[f].get("value") for f in ("model", "model_avg"))
-    if not isinstance(cal, dict) or not cal.get("value") or not has_model:
-        return None
-    v = cal["value"]
-    return {"source": cal.get("source", ""), "table": v.get("table"), "t_min": float(v["t_min"]),
-            "t_max": float(v["t_max"]), "rms": float(v["rms"]), "n_points": int(v["n_points"]),
-            "sample": v.get("sample", ""), "table_status": _table_status(name)}
-
-
-def _table_status(name) -> str:
-    from ..presets import TABLE_STATUS
-
-    return TABLE_STATUS.get(name, "from memory")
+    return calibration_record(preset, name)
 
 
 def material_rows() -> list:

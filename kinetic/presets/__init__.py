@@ -79,3 +79,22 @@ TABLE_STATUS: dict[str, str] = {
     "AlN": "partly from memory", "SiC": "checked", "InSb": "from memory", "Mg2Sn": "from memory",
     "CoSb3": "from memory",
 }
+
+
+def calibration_record(preset: Preset, name: str | None = None) -> dict | None:
+    """The calibration of one preset table as a plain dict, or None when it has no calibrated model.
+
+    Keys: source, table, t_min [K], t_max [K], rms (relative, a fraction),
+    n_points, sample, table_status. A preset is calibrated when it carries both
+    a ``"calibration"`` record and a calibrated ``"model"`` (or ``"model_avg"``).
+    Plain data (no numpy): ``kinetic materials`` reads it without loading the
+    engine, and :func:`kinetic.defaults.calibration` builds on it.
+    """
+    cal = preset.get("calibration")
+    has_model = any(isinstance(preset.get(f), dict) and preset[f].get("value") for f in ("model", "model_avg"))
+    if not isinstance(cal, dict) or not cal.get("value") or not has_model:
+        return None
+    v = cal["value"]
+    return {"source": cal.get("source", ""), "table": v.get("table"), "t_min": float(v["t_min"]),
+            "t_max": float(v["t_max"]), "rms": float(v["rms"]), "n_points": int(v["n_points"]),
+            "sample": v.get("sample", ""), "table_status": TABLE_STATUS.get(name, "from memory")}
