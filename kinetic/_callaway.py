@@ -2,7 +2,8 @@
 
 Kept apart from the model's bookkeeping (:mod:`kinetic.lattice`): this is the
 engine's hot path. Per branch, the kept rates are summed into per-thread work
-arrays, I1 = sum(w base / tau_c^-1), I2 and I3 follow with one product each,
+arrays (on a Debye branch, those given as :class:`~kinetic.grid.RateTerms` in
+one matrix product), I1 = sum(w base / tau_c^-1), I2 and I3 follow with one product each,
 and the closed-form tails below the lowest node are added in one pass.
 :meth:`_CallawaySums.kappa_jacobian` differentiates the same sums exactly for
 power-law parameters.
@@ -15,8 +16,9 @@ import numpy as np
 
 from .dispersion import Branch
 from .errors import ModelError, ParameterError
-from .grid import (BLOCK_T, CACHE_RATES, TemperatureGrid, _BranchNodes, _LOCK, _cached_grid, _checked_rate,
-                   _new_grid, _prepared_checked, _sum_into, _temperature)
+from .grid import (BLOCK_T, CACHE_RATES, RateTerms, TemperatureGrid, _BranchNodes, _LOCK, _cached_grid,
+                   _checked_rate, _checked_terms, _new_grid, _power_rows, _prepared_checked, _side_by_side,
+                   _temperature, check_columns)
 
 #: Mean free path [m] beyond any specimen (the boundary length's upper bound is
 #: 0.1 m); see MAX_LONG_PATH_SHARE.
@@ -27,82 +29,216 @@ MAX_MEAN_FREE_PATH = 1.0
 MAX_LONG_PATH_SHARE = 0.01
 
 
+_TABLES: dict = {}
+
+
+def _separable_tables(rule: str, powers_r: tuple, powers_n: tuple):
+    """Node rows [E_r; E_n] and the sum matrix V = [1, E_n,l, E_n,l E_r,k] (nodes x columns), kept, read-only."""
+    key = (rule, powers_r, powers_n)
+    hit = _TABLES.get(key)
+    if hit is None:
+        rows = _power_rows(rule, powers_r + powers_n)
+        Er, En = rows[:len(powers_r)], rows[len(powers_r):]
+        V = np.concatenate([np.ones((1, rows.shape[1])), En] + [En[j] * Er for j in range(len(powers_n))]).T.copy()
+        V.setflags(write=False)
+        if len(_TABLES) >= 64:
+            _TABLES.pop(next(iter(_TABLES)), None)
+        hit = _TABLES[key] = (rows, V)
+    return hit
+
+
+class _BranchContext:
+    """Node arrays of one branch's sums, for the Jacobian, the spectra and the mean-free-path check.
+
+    ``f1`` (weight x integrand / tau_c^-1 on the nodes) and ``r_c`` are
+    per-thread work arrays: read them before the next branch's sums.
+    ``F1`` is the I1 integrand at the two lowest nodes (None where the tails
+    were skipped). ``r_res`` and ``r_n`` (the resistive and Normal rates on
+    the nodes) are built on first use when the sums were taken from
+    :class:`RateTerms` columns.
+    """
+
+    __slots__ = ("nodes", "f1", "F1", "r_c", "corr", "_r_res", "_r_n", "_terms")
+
+    def __init__(self, nodes, f1, F1, r_c, corr):
+        self.nodes, self.f1, self.F1, self.r_c, self.corr = nodes, f1, F1, r_c, corr
+        self._r_res = self._r_n = self._terms = None
+
+    @property
+    def r_res(self):
+        if self._r_res is None and self._terms is not None:
+            A, Er, _B, _En = self._terms
+            self._r_res = np.dot(A, Er)
+        return self._r_res
+
+    @r_res.setter
+    def r_res(self, value):
+        self._r_res = value
+
+    @property
+    def r_n(self):
+        if self._r_n is None and self._terms is not None and self.corr:
+            _A, _Er, B, En = self._terms
+            self._r_n = np.dot(B, En)
+        return self._r_n
+
+    @r_n.setter
+    def r_n(self, value):
+        self._r_n = value
+
+
 class _CallawaySums:
     """Mixin of :class:`kinetic.LatticeModel`: kappa on a prepared grid, and its Jacobian."""
 
+    @staticmethod
+    def _new_rates(nodes: _BranchNodes, Tcol, mech):
+        """A mechanism's checked rate on a branch's nodes: :class:`RateTerms` where it can be, else an array."""
+        r = _checked_terms(mech, nodes) if nodes.separable else None
+        return _checked_rate(mech, nodes.branch, nodes.omega, Tcol) if r is None else r
+
     def _node_rates(self, nodes: _BranchNodes, Tcol, mech):
-        """A mechanism's rate on a branch's nodes, kept on the grid for the next call."""
+        """A mechanism's rate on a branch's nodes (:class:`RateTerms` or an array), kept on the grid."""
         try:
             return nodes.rates[mech]
         except KeyError:
             pass
         except TypeError:  # a mechanism with unhashable fields: not kept
-            return _checked_rate(mech, nodes.branch, nodes.omega, Tcol)
-        r = _checked_rate(mech, nodes.branch, nodes.omega, Tcol)
+            return self._new_rates(nodes, Tcol, mech)
+        r = self._new_rates(nodes, Tcol, mech)
         with _LOCK:
             if len(nodes.rates) >= CACHE_RATES:
                 nodes.rates.pop(next(iter(nodes.rates)), None)
             nodes.rates[mech] = r
         return r
 
+    def _full_node_rates(self, nodes: _BranchNodes, Tcol, mech):
+        """A mechanism's rate on a branch's nodes as an array (or a scalar for a constant rate)."""
+        r = self._node_rates(nodes, Tcol, mech)
+        return r.full(nodes.branch.dispersion) if isinstance(r, RateTerms) else r
+
     def _branch_sums(self, grid: TemperatureGrid, branch: Branch):
         """Callaway integrals of one branch on a prepared grid.
 
-        Returns ``(I1, I2, I3, ctx)``, ``ctx`` holding the node arrays reused by
-        the Jacobian, the spectral output and the mean-free-path check.
+        Returns ``(I1, I2, I3, ctx)``, ``ctx`` (:class:`_BranchContext`)
+        holding the node arrays reused by the Jacobian, the spectral output
+        and the mean-free-path check.
         """
         nodes = grid.nodes(branch)
         Tcol = grid.Tcol
         corr = self.has_normal_correction(branch)
-        res, nrm = [], []
-        for m in self.scattering:
-            if m.applies(branch):
-                r = self._node_rates(nodes, Tcol, m)
-                (res if (m.resistive or not self.normal_correction) else nrm).append(r)
-        buf = nodes.scratch()
-        r_res = _sum_into(buf[0], res)
-        r_n = _sum_into(buf[1], nrm) if corr else None
-        r_c, f1 = buf[2], buf[3]
-        if corr:
-            np.add(r_res, r_n, out=r_c)
-        else:
-            r_c = r_res
-        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
-            np.divide(nodes.wbase, r_c, out=f1)
-            I1 = f1 @ nodes.ones  # row sums (matrix-vector product: faster than .sum on these shapes)
+        # rates as full arrays, and as (mechanism, RateTerms) pairs; resistive and Normal
+        res, nrm, res_t, nrm_t = [], [], [], []
+        with np.errstate(all="ignore"):
+            for m in self.scattering:
+                if m.applies(branch):
+                    r = self._node_rates(nodes, Tcol, m)
+                    if m.resistive or not self.normal_correction:
+                        (res_t if type(r) is RateTerms else res).append((m, r) if type(r) is RateTerms else r)
+                    else:
+                        (nrm_t if type(r) is RateTerms else nrm).append((m, r) if type(r) is RateTerms else r)
+            if not res and not nrm:
+                return self._separable_sums(nodes, res_t, nrm_t, corr)
+            buf = nodes.scratch()
+            r_res = nodes.assemble(buf[0], res, res_t)
+            r_n = nodes.assemble(buf[1], nrm, nrm_t) if corr else None
+            r_c, f1 = buf[2], buf[3]
             if corr:
-                # I2 = sum f1 r_n, I3 = sum f1 r_n r_res: contiguous products and matrix-vector row
-                # sums (einsum "ij,ij->i" costs about twice a product plus a row sum on these shapes)
-                I = np.empty((3,) + I1.shape)
-                I[0] = I1
+                np.add(r_res, r_n, out=r_c)
+            else:
+                r_c = r_res
+            np.divide(nodes.wbase, r_c, out=f1)
+            I = np.empty((3, Tcol.shape[0]))
+            np.matmul(f1, nodes.ones, out=I[0])  # row sums (matrix-vector product: faster than .sum here)
+            if corr:
+                # I2 = sum f1 r_n, I3 = sum f1 r_n r_res: contiguous products and matrix-vector row sums
                 g = np.multiply(f1, r_n, out=buf[4])
                 np.matmul(g, nodes.ones, out=I[1])
                 g *= r_res
                 np.matmul(g, nodes.ones, out=I[2])
-                I1, I2, I3 = I
-                # The tail below the lowest node is f0 u0 / (p + 1) with p + 1 > 0.1 (else none), so
-                # below 10 f0 u0. Where f0 u0 <= 1e-14 of every sum the tails move no sum by more than
-                # 1e-13 relative -- four orders below the rule's own error (median 3e-9, see
-                # kinetic.quadrature.PANELS) -- and are skipped (saves a dozen small array operations).
-                f0 = np.empty((3,) + I1.shape)
-                np.divide(nodes.base01[:, 0], r_c[:, 0], out=f0[0])
-                np.multiply(f0[0], r_n[:, 0], out=f0[1])
-                np.multiply(f0[1], r_res[:, 0], out=f0[2])
-                f0 *= nodes.u0
-                if (f0 <= 1e-14 * I).all():
-                    F1 = None  # built from the two lowest columns when the Jacobian needs it
-                else:
-                    F = np.empty((3,) + I1.shape + (2,))
-                    np.divide(nodes.base01, r_c[:, :2], out=F[0])
-                    np.multiply(F[0], r_n[:, :2], out=F[1])
-                    np.multiply(F[1], r_res[:, :2], out=F[2])
-                    I += nodes.tails(F)
-                    F1 = F[0]
+                F1 = self._add_tails(nodes, I, r_c[:, :2], r_n[:, :2], r_res[:, :2])
             else:
-                F1 = nodes.base01 / r_c[:, :2]
-                I1 += nodes.tails(F1[None])[0]
-                I2 = I3 = np.zeros_like(I1)
-        return I1, I2, I3, (nodes, f1, F1, r_c, r_res, r_n, corr)
+                F1 = self._add_tails(nodes, I, r_c[:, :2], None, None)
+        ctx = _BranchContext(nodes, f1, F1, r_c, corr)
+        ctx.r_res, ctx.r_n = r_res, r_n
+        return I[0], I[1], I[2], ctx
+
+    @staticmethod
+    def _separable_sums(nodes: _BranchNodes, res_t: list, nrm_t: list, corr: bool):
+        """:meth:`_branch_sums` when every rate of a Debye branch comes as :class:`RateTerms`.
+
+        With A (n_T x kr) and B (n_T x kn) the resistive and Normal columns and
+        E_r, E_n their node rows (rate = A E_r, r_n = B E_n), one matrix
+        product gives tau_c^-1 = [A B] [E_r; E_n] and one more gives every
+        sum at once: M = f1 V with V = [1, E_n,l, E_n,l * E_r,k] (node x column),
+        so I1 = M_0, I2 = sum_l B_l M_l and I3 = sum_l,k B_l A_k M_lk -- the
+        same sums as the elementwise route, without forming r_res, r_n or
+        their products on the nodes (they are built only if a consumer asks).
+        Call inside ``np.errstate(all="ignore")``.
+        """
+        owners = res_t + nrm_t
+        cols, powers = _side_by_side(owners)
+        check_columns(nodes, cols, owners)
+        kr = sum(len(t.powers) for _m, t in res_t)
+        rows, V = _separable_tables(nodes.branch.dispersion, powers[:kr], powers[kr:])
+        buf = nodes.scratch()
+        r_c = np.dot(cols, rows, out=buf[2])
+        f1 = np.divide(nodes.wbase, r_c, out=buf[3])
+        M = np.dot(f1, V)
+        n_T = cols.shape[0]
+        I = np.empty((3, n_T))
+        I[0] = M[:, 0]
+        A = cols[:, :kr]
+        if corr:
+            B = cols[:, kr:]
+            kn = B.shape[1]
+            I2 = B * M[:, 1:1 + kn]
+            np.sum(I2, axis=1, out=I[1])
+            I3 = np.zeros(n_T)
+            for j in range(kn):
+                blk = M[:, 1 + kn + j * kr:1 + kn + (j + 1) * kr]
+                blk *= A
+                I3 += blk.sum(axis=1) * B[:, j]
+            I[2] = I3
+            r_n01 = np.dot(B, rows[kr:, :2])
+            r_res01 = np.dot(A, rows[:kr, :2])
+            F1 = _CallawaySums._add_tails(nodes, I, r_c[:, :2], r_n01, r_res01)
+        else:
+            F1 = _CallawaySums._add_tails(nodes, I, r_c[:, :2], None, None)
+        ctx = _BranchContext(nodes, f1, F1, r_c, corr)
+        ctx._terms = (A, rows[:kr], cols[:, kr:], rows[kr:])
+        return I[0], I[1], I[2], ctx
+
+    @staticmethod
+    def _add_tails(nodes: _BranchNodes, I: np.ndarray, r_c01, r_n01, r_res01):
+        """Add the closed-form tails below the lowest node to the sums ``I`` (3, n_T), in place.
+
+        ``r_*01`` are the rates at the two lowest nodes (``r_n01`` None
+        without Callaway's correction: then only I1 has a tail). Returns the
+        I1 integrand at the two lowest nodes (reused by the Jacobian), or None
+        where the tails were negligible and skipped.
+        """
+        if r_n01 is None:
+            F1 = nodes.base01 / r_c01
+            I[0] += nodes.tails(F1[None])[0]
+            I[1:] = 0.0
+            return F1
+        # The tail below the lowest node is f0 u0 / (p + 1) with p + 1 > 0.1 (else none), so below
+        # 10 f0 u0. Where f0 u0 <= 1e-14 of every sum the tails move no sum by more than 1e-13
+        # relative -- four orders below the rule's own error (median 3e-9, see
+        # kinetic.quadrature.PANELS) -- and are skipped (saves a dozen small array operations).
+        f0 = np.empty(I.shape)
+        np.divide(nodes.base01[:, 0], r_c01[:, 0], out=f0[0])
+        np.multiply(f0[0], r_n01[:, 0], out=f0[1])
+        np.multiply(f0[1], r_res01[:, 0], out=f0[2])
+        f0 *= nodes.u0
+        if (f0 <= 1e-14 * I).all():
+            return None  # built from the two lowest columns when the Jacobian needs it
+        F = np.empty(I.shape + (2,))
+        np.divide(nodes.base01, r_c01, out=F[0])
+        np.multiply(F[0], r_n01, out=F[1])
+        np.multiply(F[1], r_res01, out=F[2])
+        I += nodes.tails(F)
+        return F[0]
 
     @staticmethod
     def _combine(I1, I2, I3):
@@ -126,7 +262,7 @@ class _CallawaySums:
                     "finite (a total scattering rate of zero at some frequency)"
                 )
             return
-        nodes, f1, F1, r_c, *_ = ctx
+        nodes, f1, r_c = ctx.nodes, ctx.f1, ctx.r_c
         with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
             long = (np.broadcast_to(nodes.vg, f1.shape) / r_c) > MAX_MEAN_FREE_PATH
             share = (np.einsum("ij,ij->i", f1, long) + np.where(long[:, 0], I1 - f1.sum(axis=1), 0.0)) / I1
@@ -268,7 +404,7 @@ class _CallawaySums:
 
     def _branch_jacobian(self, grid, branch, I1, I2, I3, ctx, names, analytic, info, J):
         """Add one branch's exact derivatives d kappa_b / d c for the power-law parameters to J."""
-        nodes, f1, F1, r_c, r_res, r_n, corr = ctx
+        nodes, f1, F1, r_c, corr = ctx.nodes, ctx.f1, ctx.F1, ctx.r_c, ctx.corr
         mechs = {m.name: m for m in self.scattering}
         todo = []  # (column j, mechanism, d rate / d value = c * rate)
         for j in analytic:
@@ -291,7 +427,7 @@ class _CallawaySums:
                     if not corr:
                         stacks[kind] = (h[None], H[None])
                     else:
-                        sv = r_n if kind == "res" else r_res
+                        sv = ctx.r_n if kind == "res" else ctx.r_res
                         hs = h * sv
                         s01 = sv[:, :2]
                         Hs = H * s01
@@ -302,7 +438,7 @@ class _CallawaySums:
             for _j, mech, _c in todo:
                 kind = "res" if (mech.resistive or not self.normal_correction) else "n"
                 Hk, H01 = stack(kind)
-                rho = np.broadcast_to(self._node_rates(nodes, grid.Tcol, mech), nodes.shape)
+                rho = np.broadcast_to(self._full_node_rates(nodes, grid.Tcol, mech), nodes.shape)
                 sums.append(np.einsum("kij,ij->ki", Hk, rho))
                 cols.append(H01 * rho[None, :, :2])
             tails = nodes.tails(np.concatenate(cols))

@@ -74,25 +74,17 @@ def _scratch(shape) -> np.ndarray:
     return buf
 
 
-_TILES: dict = {}
+_ONES: dict = {}
 
 
-def _row_tile(weights, exp_off, n_T: int) -> np.ndarray:
-    """w_j e_j^3 of a Debye rule repeated on n_T rows (read-only, kept per rule and size).
-
-    A product with a full contiguous array is several times faster than one
-    broadcast along rows on these shapes.
-    """
-    key = (id(weights), n_T)
-    hit = _TILES.get(key)
-    if hit is not None and hit[0] is weights:  # the kept reference keeps the id from being reused
-        return hit[1]
-    tile = np.ascontiguousarray(np.broadcast_to(weights * exp_off**3, (n_T, weights.size)))
-    tile.setflags(write=False)
-    if len(_TILES) >= 8:
-        _TILES.pop(next(iter(_TILES)), None)
-    _TILES[key] = (weights, tile)
-    return tile
+def _ones(n: int) -> np.ndarray:
+    """A read-only vector of n ones (row sums as matrix-vector products), kept per size."""
+    v = _ONES.get(n)
+    if v is None:
+        v = np.ones(n)
+        v.setflags(write=False)
+        _ONES[n] = v
+    return v
 
 
 def _planck_on_nodes(x, tmp=None):
@@ -109,17 +101,69 @@ def _planck_on_nodes(x, tmp=None):
     return x
 
 
+_ROWS: dict = {}
+
+
+def _power_rows(rule: str, powers: tuple) -> np.ndarray:
+    """e_j^n of a rule's node offsets e_j = u_j / u_hi, one row per power in ``powers`` (kept, read-only)."""
+    key = (rule, powers)
+    rows = _ROWS.get(key)
+    if rows is None:
+        e = quad._RULES[rule][2]
+        rows = np.empty((len(powers), e.size))
+        for k, n in enumerate(powers):
+            rows[k] = 1.0 if n == 0.0 else e**n
+        rows.setflags(write=False)
+        if len(_ROWS) >= 64:
+            _ROWS.pop(next(iter(_ROWS)), None)
+        _ROWS[key] = rows
+    return rows
+
+
+class RateTerms:
+    """A scattering rate on a Debye branch's nodes, kept as columns: rate[i, j] = sum_k cols[i, k] e_j^powers[k].
+
+    On a Debye branch omega at node j of temperature i is (omega_max u_hi_i)
+    e_j, so a rate sum_n c_n(T) omega^n (:meth:`Mechanism.rate_terms`) is held
+    by one column per power -- c_n(T_i) (omega_max u_hi_i)^n, checked finite
+    and >= 0 -- and the node rows e_j^n; all mechanisms of a branch then sum
+    in one matrix product (:meth:`_BranchNodes.assemble`).
+    """
+
+    __slots__ = ("powers", "cols")
+
+    def __init__(self, powers: tuple, cols: np.ndarray):
+        self.powers = powers
+        self.cols = cols
+
+    def full(self, rule: str = "debye") -> np.ndarray:
+        """The rate at every node [s^-1], shape (n_T, n_nodes)."""
+        return np.dot(self.cols, _power_rows(rule, self.powers))
+
+
+def _side_by_side(owners) -> tuple:
+    """The columns of several ``(mechanism, RateTerms)`` pairs side by side, and their powers."""
+    if len(owners) == 1:
+        t = owners[0][1]
+        return t.cols, t.powers
+    return (np.concatenate([t.cols for _m, t in owners], axis=1),
+            sum((t.powers for _m, t in owners), ()))
+
+
 class _BranchNodes:
     """Quadrature nodes, Planck-weighted integrand and kept rates of one branch on one temperature grid.
 
-    Holds omega at the nodes (what mechanisms see), ``wbase`` = weight x
-    integrand / tau (so an integral is a sum of ``wbase / rate``) and the two
-    lowest columns of the integrand for the closed-form tail. Scratch arrays
-    for the sums are kept per thread, so repeated calls allocate nothing big.
+    Holds ``wbase`` = weight x integrand / tau (so an integral is a sum of
+    ``wbase / rate``), the two lowest columns of the integrand for the
+    closed-form tail, and omega at the nodes (what mechanisms see; built on
+    first use on a Debye branch, whose rates usually come as
+    :class:`RateTerms` from ``scale`` = omega_max u_hi, the per-temperature
+    factor of omega). Scratch arrays for the sums are kept per thread, so
+    repeated calls allocate nothing big.
     """
 
-    __slots__ = ("branch", "T", "u_hi", "omega", "wbase", "base01", "u0", "log_ratio", "rates", "shape", "_vg",
-                 "ones")
+    __slots__ = ("branch", "T", "u_hi", "_omega", "wbase", "base01", "u0", "log_ratio", "rates", "shape", "_vg",
+                 "ones", "separable", "scale")
 
     def __init__(self, branch: Branch, T: np.ndarray):
         # x = hbar omega / kB T at the zone edge (theta / T on a Debye branch; read from omega_max so
@@ -144,31 +188,59 @@ class _BranchNodes:
             x /= T[:, None]
             _planck_on_nodes(x)
             wbase *= x
+            omega.setflags(write=False)  # shared with the mechanisms (and their kept powers of omega)
         else:
             # Debye: u = u_hi(T) e_j and x = u x_max factor into a column and a row, so
-            # wbase = u_hi^3 (pref v^2 w_j e_j^3) ((x/2) / sinh(x/2))^2 is one outer
-            # product, one sinh and four in-place passes (no 2-D u, u^3 or x kept)
-            h = np.multiply.outer(0.5 * u_hi * x_max, exp_off, out=_scratch((T.size, exp_off.size))[0])
+            # wbase = u_hi^3 (pref v^2 w_j e_j^3) ((x/2) / sinh(x/2))^2: two rank-one products (np.dot
+            # hands them to BLAS: twice as fast as np.multiply.outer or a broadcast product on these
+            # shapes, and four times np.matmul, which does not), one sinh and three in-place passes
+            h = np.dot((0.5 * u_hi * x_max)[:, None], exp_off[None, :], out=_scratch((T.size, exp_off.size))[0])
             wbase = np.sinh(h)
             np.divide(h, wbase, out=wbase)
             np.multiply(wbase, wbase, out=wbase)
-            wbase *= _row_tile(weights, exp_off, T.size)
-            wbase *= (pref * branch.velocity**2 * u_hi**3)[:, None]
-            omega = np.multiply.outer(branch.omega_max * u_hi, exp_off)
+            wbase *= np.dot((pref * branch.velocity**2 * u_hi**3)[:, None], (weights * exp_off**3)[None, :], out=h)
+            omega = None
         self.branch = branch
         self.T = T
         self.u_hi = u_hi
-        omega.setflags(write=False)  # shared with the mechanisms (and their kept powers of omega)
-        self.omega = omega
+        self.separable = not sine
+        self.scale = branch.omega_max * u_hi
+        self._omega = omega
         self.wbase = wbase
-        w01 = weights[None, :2] * (u_hi[:, None] * exp_off[None, :2])
+        w01 = weights[:2] * exp_off[:2] * u_hi[:, None]
         self.base01 = wbase[:, :2] / w01
         self.u0 = u_hi * exp_off[0]
         self.log_ratio = quad.log_ratio(branch.dispersion)
         self.shape = wbase.shape
-        self.ones = np.ones(wbase.shape[1])
+        self.ones = _ones(wbase.shape[1])
         self.rates: dict = {}
         self._vg = None
+
+    @property
+    def omega(self) -> np.ndarray:
+        """Angular frequency at the nodes [rad/s], shape (n_T, n_nodes), read-only."""
+        if self._omega is None:
+            om = np.dot(self.scale[:, None], quad._RULES[self.branch.dispersion][2][None, :])
+            om.setflags(write=False)  # shared with the mechanisms (and their kept powers of omega)
+            self._omega = om
+        return self._omega
+
+    def assemble(self, out: np.ndarray, full: list, owners: list) -> np.ndarray:
+        """Sum of rates on the nodes: :class:`RateTerms` in one matrix product, plus full arrays.
+
+        ``owners`` holds ``(mechanism, RateTerms)`` pairs (their columns are
+        checked here, see :func:`check_columns`), ``full`` checked arrays.
+        ``out`` receives the sum unless a single full-shape array is the
+        whole of it (then that is returned, read only from here on).
+        """
+        if not owners:
+            return _sum_into(out, full)
+        cols, powers = _side_by_side(owners)
+        check_columns(self, cols, owners)
+        np.dot(cols, _power_rows(self.branch.dispersion, powers), out=out)
+        for r in full:
+            np.add(out, r, out=out)
+        return out
 
     def tail(self, f01):
         """Closed-form integral below the lowest node from the integrand at the two lowest nodes."""
@@ -370,6 +442,64 @@ def _checked_rate(mech, branch, omega, Tcol):
         if not (lo >= 0.0 and hi < np.inf):
             raise ModelError(_describe_bad(mech, branch, r, omega, Tcol))
     return r
+
+
+def _checked_terms(mech, nodes):
+    """A mechanism's rate on a Debye branch's nodes as :class:`RateTerms`, or None when it has no such form.
+
+    The columns c_n(T) (omega_max u_hi)^n are checked (finite and >= 0) where
+    the rates of a branch are summed, all mechanisms at once
+    (:func:`check_columns`); call inside ``np.errstate(all="ignore")``.
+    """
+    branch = nodes.branch
+    try:
+        terms = mech.rate_terms(branch, nodes.T)
+        if terms is None:
+            return None
+        terms = tuple(terms)
+        cols = np.empty((nodes.T.size, len(terms)))
+        powers = []
+        for k, (n, c) in enumerate(terms):
+            n = float(n)
+            if n < 0.0:  # e_j^n would grow without bound toward low frequency: checked on every node instead
+                return None
+            cols[:, k] = c
+            if n != 0.0:
+                cols[:, k] *= nodes.scale**n
+            powers.append(n)
+    except (KineticError, MemoryError, KeyboardInterrupt):
+        raise
+    except Exception as exc:
+        raise ModelError(
+            f"mechanism {mech.name!r} ({type(mech).__name__}) failed on branch {branch.name!r}: "
+            f"{type(exc).__name__}: {exc}"
+        ) from exc
+    return RateTerms(tuple(powers), cols)
+
+
+def check_columns(nodes, cols: np.ndarray, owners) -> None:
+    """Refuse RateTerms columns that are not finite and >= 0, naming the mechanism.
+
+    ``cols`` are the columns of every RateTerms of a branch side by side,
+    ``owners`` the ``(mechanism, RateTerms)`` pairs they came from. The node
+    rows e_j^n are positive and at most 1 (e_j^n for n >= 0), so finite,
+    non-negative columns with a finite sum give finite, non-negative rates.
+    Two reductions over n_T x k numbers: the check costs O(n_T), not O(n_T x
+    nodes). A bad column is described by :func:`_checked_rate` on the full
+    nodes (the mechanism, the branch, omega and T of the first bad value).
+    """
+    if not cols.size or (cols.min() >= 0.0 and np.isfinite(cols.sum())):
+        return
+    branch = nodes.branch
+    for mech, t in owners:
+        if not (t.cols.min() >= 0.0 and np.isfinite(t.cols.sum())):
+            _checked_rate(mech, branch, nodes.omega, nodes.T[:, None])
+            raise ModelError(
+                f"mechanism {mech.name!r} ({type(mech).__name__}) returned scattering rates too large to "
+                f"represent on branch {branch.name!r}; a rate 1/tau must be finite and >= 0 [s^-1]"
+            )
+    raise ModelError(f"the scattering rates on branch {branch.name!r} are too large to sum "
+                     "(over 1e308 s^-1); a rate 1/tau must be finite [s^-1]")
 
 
 def _sum_into(out: np.ndarray, rates: list) -> np.ndarray:

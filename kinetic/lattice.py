@@ -286,9 +286,10 @@ class LatticeModel(_CallawaySums):
     def _branch_integrals(self, branch: Branch, T: np.ndarray):
         """Callaway integrals (I1, I2, I3) and node arrays of one branch (spectral output)."""
         grid = prepared_grid(T)
-        I1, I2, I3, (nodes, f1, F1, r_c, r_res, r_n, corr) = self._branch_sums(grid, branch)
-        self._check_mean_free_path(grid, branch, I1, (nodes, f1, F1, r_c, r_res, r_n, corr))
-        r_nn = r_n if corr else np.zeros(nodes.shape)
+        I1, I2, I3, ctx = self._branch_sums(grid, branch)
+        self._check_mean_free_path(grid, branch, I1, ctx)
+        nodes, r_c = ctx.nodes, ctx.r_c
+        r_nn = ctx.r_n if ctx.corr else np.zeros(nodes.shape)
         u, w, _ = nodes.full()
         base = nodes.wbase / w
         return I1, I2, I3, (u, w, nodes.omega, nodes.branch.group_velocity_of_u(u), base, 1.0 / r_c, r_nn.copy())

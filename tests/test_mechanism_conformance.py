@@ -11,13 +11,13 @@ test, is refused by LatticeModel with its name.
 import itertools
 import math
 import re
-from dataclasses import dataclass
+from dataclasses import dataclass, fields
 from typing import ClassVar
 
 import numpy as np
 import pytest
 
-from kinetic import Boundary, Branch, LatticeModel, PointDefect, Umklapp
+from kinetic import Boundary, Branch, LatticeModel, Normal, PointDefect, Umklapp
 from kinetic.errors import ModelError, ParameterError
 from kinetic.scattering import MECHANISMS, Mechanism, _Spec, mechanism_from_dict, register
 
@@ -161,6 +161,53 @@ def test_adding_a_mechanism_never_raises_kappa(kind, i, mech):
         assert np.all(k1 <= k0 * (1 + 1e-9)), (kind, pt)  # 1e-9: round-off between two evaluations
 
 
+# ------------------------------------------------------------------ the two routes of the engine
+def _node_by_node(mech):
+    """The same mechanism with its power-law form hidden, so the engine evaluates its rate on every node."""
+    cls = type(mech)
+    if cls.rate_terms is Mechanism.rate_terms:
+        return mech
+    opaque = dataclass(frozen=True)(type("Opaque" + cls.__name__, (cls,), {
+        "rate_terms": lambda self, branch, T: None,
+        "rate": lambda self, omega, T, branch: cls.rate(mech, omega, T, branch),
+    }))
+    return opaque(**{f.name: getattr(mech, f.name) for f in fields(mech)})
+
+
+ROUTE_T = np.array([0.5, 3.0, 20.0, 77.0, 300.0, 1500.0])
+
+
+@pytest.mark.parametrize("kind, i, mech", EXAMPLES, ids=IDS)
+def test_power_law_route_matches_node_by_node_evaluation(kind, i, mech):
+    # A mechanism that gives rate_terms is summed on Debye branches from per-temperature columns
+    # in matrix products; the same model with every rate evaluated on every node (the route of
+    # sine branches and of rates that are no power-law sum) must agree to round-off. 1e-11: sums
+    # of ~100 positive terms in a different order, and the Jacobian's parameter scaling.
+    extra = mechanism_from_dict({**mech.to_dict(), "name": "extra"})
+    branches = BRANCHES[:2] + [Branch(7000.0, 500.0, 1, name="L2")]
+    for normal in ([], [Normal(B=1e-24)], [Normal(B=1e-24, applies_to=("L",))]):
+        fast = LatticeModel(branches, [Boundary(1e-4), PointDefect(A=1.3e-45), Umklapp(B=2e-19), extra, *normal])
+        slow = LatticeModel(branches, [_node_by_node(m) for m in fast.scattering])
+        for a, b in zip(fast.kappa_parts(ROUTE_T).values(), slow.kappa_parts(ROUTE_T).values()):
+            np.testing.assert_allclose(a, b, rtol=1e-11)
+        names = [n for n, p in fast.parameter_info().items() if p.rate_power is not None]
+        kf, Jf = fast.kappa_jacobian(ROUTE_T, names)
+        ks, Js = slow.kappa_jacobian(ROUTE_T, names)
+        np.testing.assert_allclose(kf, ks, rtol=1e-11)
+        np.testing.assert_allclose(Jf, Js, rtol=1e-9, atol=1e-11 * np.abs(Js).max())
+
+
+def test_applies_to_on_one_branch_of_a_block():
+    # mechanisms that act on one branch only leave the others' rates alone on both routes
+    pd_l = PointDefect(A=1e-43, applies_to=("L",))
+    m = LatticeModel(BRANCHES[:2], [Boundary(1e-4), Umklapp(B=2e-19), pd_l])
+    alone_t = LatticeModel([BRANCHES[1]], [Boundary(1e-4), Umklapp(B=2e-19)])
+    alone_l = LatticeModel([BRANCHES[0]], [Boundary(1e-4), Umklapp(B=2e-19), pd_l])
+    parts = m.kappa_parts(ROUTE_T)
+    np.testing.assert_allclose(parts["T"], alone_t.kappa(ROUTE_T), rtol=1e-12)
+    np.testing.assert_allclose(parts["L"], alone_l.kappa(ROUTE_T), rtol=1e-12)
+
+
 # ------------------------------------------------------------------ broken mechanisms
 def _broken(kind_name, value):
     @dataclass(frozen=True)
@@ -198,6 +245,35 @@ def test_broken_mechanism_is_refused_with_its_name(value, word):
     assert "broken_rate" not in MECHANISMS
 
 
+def _broken_terms(kind_name, value):
+    @dataclass(frozen=True)
+    class BrokenTerms(Mechanism):
+        C: float = 1.0
+        name: str = kind_name
+        applies_to: tuple | None = None
+
+        kind: ClassVar[str] = kind_name
+        label: ClassVar[str] = "Deliberately broken power law (test)"
+        colour: ClassVar[str] = "#000001"
+        _spec: ClassVar[dict] = {"C": _Spec("", "strength C", (0.1, 10.0))}
+
+        def rate_terms(self, branch, T):
+            T = np.asarray(T, dtype=float)
+            return ((1.0, np.where(T > 100.0, value, self.C * 1e-3)),)
+
+    return BrokenTerms
+
+
+@pytest.mark.parametrize("value, word", [(np.nan, "NaN"), (-1.0, "negative"), (np.inf, "infinite")])
+def test_broken_power_law_columns_are_refused_with_their_name(value, word):
+    # the power-law route checks columns, not nodes; a bad one is still described at a node, by name
+    m = BASE.with_mechanism(_broken_terms("broken_terms", value)())
+    with pytest.raises(ModelError, match=rf"mechanism 'broken_terms' \(BrokenTerms\) returned an? {word} scattering "
+                                         r"rate .* at omega = .*, T = 300 K on branch 'L'"):
+        m.kappa([10.0, 300.0])
+    assert np.all(np.isfinite(m.kappa([10.0, 50.0])))
+
+
 def test_registration_refuses_incomplete_classes():
     bad = _broken("no_label_kind", 1.0)
     bad.label = ""
@@ -207,6 +283,10 @@ def test_registration_refuses_incomplete_classes():
     bad.colour = "blue"
     with pytest.raises(ParameterError, match="hex colour"):
         register(bad)
+    neither = _broken("no_rate_kind", 1.0)
+    neither.rate = Mechanism.rate
+    with pytest.raises(ParameterError, match=r"needs rate\(omega, T, branch\) or rate_terms"):
+        register(neither)
     with pytest.raises(ParameterError, match="already registered"):
         clone = _broken("boundary", 1.0)
         register(clone)

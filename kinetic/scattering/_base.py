@@ -35,7 +35,8 @@ class Mechanism:
     Subclasses define dataclass fields for their parameters (``None`` for an
     unused alternative parameterisation), a ``kind``, a plain-words ``label``
     and a ``colour``, ``_spec`` with each parameter's unit, description and
-    bounds, and ``rate``.
+    bounds, and either ``rate_terms`` (a rate that is a sum of power laws in
+    omega: the engine's fast route on Debye branches) or ``rate``.
     """
 
     kind: ClassVar[str] = ""
@@ -143,8 +144,35 @@ class Mechanism:
             return np.zeros(np.broadcast_shapes(np.shape(omega), np.shape(T)))
         return self.rate(omega, T, branch)
 
-    def rate(self, omega, T, branch: Branch):  # pragma: no cover - abstract
-        raise NotImplementedError
+    def rate_terms(self, branch: Branch, T):
+        """The rate as a sum of power laws in omega, or None.
+
+        Returns ``((n, c_n), ...)`` meaning 1/tau = sum_n c_n(T) omega^n
+        [s^-1], each ``c_n`` a float or an array computed elementwise from
+        ``T`` [K] (so shaped like it), or None when the rate on ``branch`` is
+        not such a sum (then only :meth:`rate` describes it).
+
+        A mechanism that defines this gets :meth:`rate` from it (one formula,
+        not two). On a Debye branch omega at the engine's nodes is a factor
+        per temperature times a factor per node, so the engine builds such a
+        rate from one short column per power (checked there, O(n_T)) and one
+        matrix product for all mechanisms together, instead of evaluating
+        and checking every mechanism on every node.
+        """
+        return None
+
+    def rate(self, omega, T, branch: Branch):
+        """Scattering rate 1/tau [s^-1] at angular frequencies ``omega`` [rad/s] and temperatures ``T`` [K].
+
+        ``omega`` and ``T`` broadcast together. This default sums
+        :meth:`rate_terms`; a mechanism whose rate is not a sum of power laws
+        in omega overrides it.
+        """
+        omega, T = _omega_T(omega, T)
+        terms = self.rate_terms(branch, T)
+        if terms is None:
+            raise NotImplementedError(f"{type(self).__name__} defines neither rate nor rate_terms")
+        return _sum_terms(terms, omega)
 
     # --- records ------------------------------------------------------------------
     def to_dict(self) -> dict:
@@ -160,6 +188,15 @@ class Mechanism:
 
 def _omega_T(omega, T):
     return np.asarray(omega, dtype=float), np.asarray(T, dtype=float)
+
+
+def _sum_terms(terms, omega):
+    """sum_n c_n omega^n from ``((n, c_n), ...)``; a lone constant term stays unbroadcast (no array built)."""
+    out = None
+    for n, c in terms:
+        t = np.asarray(c, dtype=float) if n == 0 else _power(omega, n) * c
+        out = t if out is None else out + t
+    return np.asarray(0.0) if out is None else out
 
 
 def _full(value, omega, T):
@@ -224,8 +261,9 @@ def register(cls):
     """Register a mechanism class under its ``kind`` (usable as a class decorator).
 
     Checks what every consumer relies on: a frozen Mechanism dataclass with a
-    new identifier ``kind``, a plain-words ``label``, a hex ``colour`` and
-    each declared parameter a field with unit text, description and bounds.
+    new identifier ``kind``, a plain-words ``label``, a hex ``colour``, a
+    ``rate`` or ``rate_terms``, and each declared parameter a field with unit
+    text, description and bounds.
     Returns the class.
 
     Raises
@@ -246,6 +284,8 @@ def register(cls):
     if not (isinstance(c, str) and len(c) == 7 and c[0] == "#"
             and all(ch in "0123456789abcdefABCDEF" for ch in c[1:])):
         raise ParameterError(f"{cls.__name__}.colour must be a hex colour such as '#1f77b4', got {c!r}")
+    if cls.rate is Mechanism.rate and cls.rate_terms is Mechanism.rate_terms:
+        raise ParameterError(f"{cls.__name__} needs rate(omega, T, branch) or rate_terms(branch, T)")
     names = {f.name for f in fields(cls)}
     for pname, spec in cls._spec.items():
         if pname not in names:

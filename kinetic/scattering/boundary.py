@@ -58,8 +58,14 @@ class Boundary(Mechanism):
         p = self.specularity
         return self.length * (1.0 + p) / (1.0 - p)
 
+    def rate_terms(self, branch, T):
+        # a Debye branch's group velocity is its sound velocity: a constant rate
+        if branch.dispersion != "debye":
+            return None
+        return ((0.0, branch.velocity / self.effective_length),)
+
     def rate(self, omega, T, branch):
+        if branch.dispersion == "debye":
+            return super().rate(omega, T, branch)
         omega, T = _omega_T(omega, T)
-        # a Debye branch's group velocity is its sound velocity: no array to build
-        v = branch.velocity if branch.dispersion == "debye" else branch.group_velocity(omega)
-        return _full(v / self.effective_length, omega, T)
+        return _full(branch.group_velocity(omega) / self.effective_length, omega, T)

@@ -6,7 +6,7 @@ from typing import ClassVar
 
 import numpy as np
 
-from ._base import Mechanism, _full, _omega_T, _power, _Spec, register
+from ._base import Mechanism, _Spec, register
 
 __all__ = ["Dislocation"]
 
@@ -69,11 +69,10 @@ class Dislocation(Mechanism):
         "orientation": _Spec("", "orientation factor η (dislocations to heat flow)", (0.1, 1.0), log=False, fixed=True, power=1.0),
     }
 
-    def rate(self, omega, T, branch):
-        omega, T = _omega_T(omega, T)
+    def rate_terms(self, branch, T):
         r = self.poisson_ratio
-        core = self.orientation * self.density * self.volume_per_atom ** (4.0 / 3.0) * _power(omega, 3.0) / branch.velocity**2
+        core = self.orientation * self.density * self.volume_per_atom ** (4.0 / 3.0) / branch.velocity**2
         bracket = 0.5 + (1.0 / 24.0) * ((1 - 2 * r) / (1 - r)) ** 2 * (1 + np.sqrt(2.0) * self.velocity_ratio**2) ** 2
         strain = (self.orientation * 2**1.5 / 3**3.5 * self.density * self.burgers**2
-                  * self.gruneisen**2 * omega * bracket)
-        return _full(core + strain, omega, T)
+                  * self.gruneisen**2 * bracket)
+        return ((3.0, core), (1.0, strain))

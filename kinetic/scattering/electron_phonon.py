@@ -4,7 +4,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 from typing import ClassVar
 
-from ._base import Mechanism, _full, _omega_T, _Spec, register
+from ._base import Mechanism, _Spec, register
 
 __all__ = ["ElectronPhonon"]
 
@@ -34,6 +34,5 @@ class ElectronPhonon(Mechanism):
     colour: ClassVar[str] = "#8c564b"
     _spec: ClassVar[dict] = {"C": _Spec("", "electron-phonon scattering strength C", (1e-8, 1e-1), power=1.0)}
 
-    def rate(self, omega, T, branch):
-        omega, T = _omega_T(omega, T)
-        return _full(self.C * omega, omega, T)
+    def rate_terms(self, branch, T):
+        return ((1.0, self.C),)

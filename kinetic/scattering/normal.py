@@ -4,7 +4,9 @@ from __future__ import annotations
 from dataclasses import dataclass
 from typing import ClassVar
 
-from ._base import Mechanism, _omega_T, _power, _Spec, register
+import numpy as np
+
+from ._base import Mechanism, _power, _Spec, register
 
 __all__ = ["Normal"]
 
@@ -46,6 +48,5 @@ class Normal(Mechanism):
                                    fixed=True),
     }
 
-    def rate(self, omega, T, branch):
-        omega, T = _omega_T(omega, T)
-        return _power(omega, self.omega_power) * (self.B * _power(T, self.temperature_power))
+    def rate_terms(self, branch, T):
+        return ((self.omega_power, self.B * _power(np.asarray(T, dtype=float), self.temperature_power)),)

@@ -8,7 +8,7 @@ import numpy as np
 
 from ..dispersion import Branch
 from ..errors import ParameterError
-from ._base import Mechanism, _omega_T, _power, _Spec, register
+from ._base import Mechanism, _Spec, register
 
 __all__ = ["PointDefect"]
 
@@ -82,6 +82,5 @@ class PointDefect(Mechanism):
             return self.A
         return self.volume_per_atom * self.gamma / (4.0 * np.pi * branch.velocity**3)
 
-    def rate(self, omega, T, branch):
-        omega, T = _omega_T(omega, T)
-        return _power(omega, 4.0) * self.coefficient(branch)
+    def rate_terms(self, branch, T):
+        return ((4.0, self.coefficient(branch)),)

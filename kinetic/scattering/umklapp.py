@@ -9,7 +9,7 @@ from scipy.constants import atomic_mass, hbar
 
 from ..dispersion import Branch
 from ..errors import ParameterError
-from ._base import Mechanism, _omega_T, _power, _Spec, register
+from ._base import Mechanism, _Spec, register
 
 __all__ = ["Umklapp"]
 
@@ -101,7 +101,7 @@ class Umklapp(Mechanism):
             self.atomic_mass * branch.velocity**2 * branch.debye_temperature
         )
 
-    def rate(self, omega, T, branch):
-        omega, T = _omega_T(omega, T)
+    def rate_terms(self, branch, T):
+        T = np.asarray(T, dtype=float)
         # exp of a large negative argument underflows quietly to 0 (no warning).
-        return _power(omega, 2.0) * (self.coefficient(branch) * T * np.exp(-branch.debye_temperature / (self.b * T)))
+        return ((2.0, self.coefficient(branch) * T * np.exp(-branch.debye_temperature / (self.b * T))),)
