@@ -14,10 +14,11 @@ from typing import Sequence
 
 import numpy as np
 
+from . import quadrature as quad
 from .dispersion import Branch
 from .errors import ModelError, ParameterError
 from .grid import (BLOCK_T, CACHE_RATES, RateTerms, TemperatureGrid, _BranchNodes, _LOCK, _cached_grid,
-                   _checked_rate, _checked_terms, _new_grid, _power_rows, _prepared_checked, _side_by_side,
+                   _checked_terms, block_rate, _new_grid, _power_rows, _prepared_checked, _side_by_side,
                    _temperature, check_columns)
 
 #: Mean free path [m] beyond any specimen (the boundary length's upper bound is
@@ -33,17 +34,36 @@ _TABLES: dict = {}
 
 
 def _separable_tables(rule: str, powers_r: tuple, powers_n: tuple):
-    """Node rows [E_r; E_n] and the sum matrix V = [1, E_n,l, E_n,l E_r,k] (nodes x columns), kept, read-only."""
+    """Tables of the power-law route for one layout of columns (kept, read-only).
+
+    Returns ``(rows, V, G, Z)``: the node rows [E_r; E_n] (rate = cols rows);
+    the sum matrix V = wrow_j [1, E_n,l, E_n,l E_r,k] (nodes x sums), wrow_j =
+    w_j e_j^3 the node factor of a Debye block's weights (see
+    :class:`~kinetic.grid._BranchNodes`); G (3 x sums), which adds the
+    weighted sums into I1, I2 and I3; and Z (columns x 2), which picks the
+    resistive and Normal rates at the lowest node from the columns.
+    """
     key = (rule, powers_r, powers_n)
     hit = _TABLES.get(key)
     if hit is None:
+        kr, kn = len(powers_r), len(powers_n)
         rows = _power_rows(rule, powers_r + powers_n)
-        Er, En = rows[:len(powers_r)], rows[len(powers_r):]
-        V = np.concatenate([np.ones((1, rows.shape[1])), En] + [En[j] * Er for j in range(len(powers_n))]).T.copy()
-        V.setflags(write=False)
+        Er, En = rows[:kr], rows[kr:]
+        V = np.concatenate([np.ones((1, rows.shape[1])), En] + [En[j] * Er for j in range(kn)]).T.copy()
+        _, weights, exp_off = quad._RULES[rule]
+        V *= (weights * exp_off**3)[:, None]
+        G = np.zeros((3, V.shape[1]))
+        G[0, 0] = 1.0
+        G[1, 1:1 + kn] = 1.0
+        G[2, 1 + kn:] = 1.0
+        Z = np.zeros((kr + kn, 2))
+        Z[:kr, 0] = Er[:, 0]
+        Z[kr:, 1] = En[:, 0]
+        for a in (V, G, Z):
+            a.setflags(write=False)
         if len(_TABLES) >= 64:
             _TABLES.pop(next(iter(_TABLES)), None)
-        hit = _TABLES[key] = (rows, V)
+        hit = _TABLES[key] = (rows, V, G, Z)
     return hit
 
 
@@ -58,11 +78,17 @@ class _BranchContext:
     :class:`RateTerms` columns.
     """
 
-    __slots__ = ("nodes", "f1", "F1", "r_c", "corr", "_r_res", "_r_n", "_terms")
+    __slots__ = ("nodes", "_f1", "_fp", "F1", "r_c", "corr", "_r_res", "_r_n", "_terms")
 
     def __init__(self, nodes, f1, F1, r_c, corr):
-        self.nodes, self.f1, self.F1, self.r_c, self.corr = nodes, f1, F1, r_c, corr
-        self._r_res = self._r_n = self._terms = None
+        self.nodes, self._f1, self.F1, self.r_c, self.corr = nodes, f1, F1, r_c, corr
+        self._fp = self._r_res = self._r_n = self._terms = None
+
+    @property
+    def f1(self):
+        if self._f1 is None:  # the power-law route kept planck / tau_c^-1 only
+            self._f1 = self._fp * self.nodes.weight_scale()
+        return self._f1
 
     @property
     def r_res(self):
@@ -91,51 +117,67 @@ class _CallawaySums:
     """Mixin of :class:`kinetic.LatticeModel`: kappa on a prepared grid, and its Jacobian."""
 
     @staticmethod
-    def _new_rates(nodes: _BranchNodes, Tcol, mech):
-        """A mechanism's checked rate on a branch's nodes: :class:`RateTerms` where it can be, else an array."""
+    def _new_rates(nodes: _BranchNodes, mech):
+        """A mechanism's checked rate on a block's nodes: :class:`RateTerms` where it can be, else an array."""
         r = _checked_terms(mech, nodes) if nodes.separable else None
-        return _checked_rate(mech, nodes.branch, nodes.omega, Tcol) if r is None else r
+        return block_rate(mech, nodes) if r is None else r
 
-    def _node_rates(self, nodes: _BranchNodes, Tcol, mech):
-        """A mechanism's rate on a branch's nodes (:class:`RateTerms` or an array), kept on the grid."""
+    def _node_rates(self, nodes: _BranchNodes, mech):
+        """A mechanism's rate on a block's nodes (:class:`RateTerms` or an array), kept on the grid."""
         try:
             return nodes.rates[mech]
         except KeyError:
             pass
         except TypeError:  # a mechanism with unhashable fields: not kept
-            return self._new_rates(nodes, Tcol, mech)
-        r = self._new_rates(nodes, Tcol, mech)
+            return self._new_rates(nodes, mech)
+        r = self._new_rates(nodes, mech)
         with _LOCK:
             if len(nodes.rates) >= CACHE_RATES:
                 nodes.rates.pop(next(iter(nodes.rates)), None)
             nodes.rates[mech] = r
         return r
 
-    def _full_node_rates(self, nodes: _BranchNodes, Tcol, mech):
-        """A mechanism's rate on a branch's nodes as an array (or a scalar for a constant rate)."""
-        r = self._node_rates(nodes, Tcol, mech)
-        return r.full(nodes.branch.dispersion) if isinstance(r, RateTerms) else r
+    def _full_node_rates(self, nodes: _BranchNodes, mech):
+        """A mechanism's rate on a block's nodes as an array (or a scalar for a constant rate)."""
+        r = self._node_rates(nodes, mech)
+        return r.full(nodes.rule) if type(r) is RateTerms else r
+
+    def _blocks(self) -> list:
+        """The model's branches grouped by dispersion (model order within a group): the engine's blocks."""
+        groups: dict = {}
+        for b in self.branches:
+            groups.setdefault(b.dispersion, []).append(b)
+        return [tuple(g) for g in groups.values()]
 
     def _branch_sums(self, grid: TemperatureGrid, branch: Branch):
-        """Callaway integrals of one branch on a prepared grid.
+        """Callaway integrals ``(I1, I2, I3, ctx)`` of one branch on a prepared grid (a block of one)."""
+        I, ctx = self._block_sums(grid, (branch,))
+        return I[0], I[1], I[2], ctx
 
-        Returns ``(I1, I2, I3, ctx)``, ``ctx`` (:class:`_BranchContext`)
-        holding the node arrays reused by the Jacobian, the spectral output
-        and the mean-free-path check.
+    def _block_sums(self, grid: TemperatureGrid, branches: tuple):
+        """Callaway integrals of a block of branches (one dispersion) on a prepared grid.
+
+        Returns ``(I, ctx)``: ``I`` of shape (3, n_rows) holds I1, I2, I3 for
+        every row (branch i at temperature t is row i n_T + t); ``ctx``
+        (:class:`_BranchContext`) holds the node arrays reused by the
+        Jacobian, the spectral output and the mean-free-path check. A
+        mechanism enters where it applies to any branch of the block (its
+        rate is zero on the rows of the others), so a branch without a
+        Normal term gets I2 = I3 = 0 and kappa = I1.
         """
-        nodes = grid.nodes(branch)
-        Tcol = grid.Tcol
-        corr = self.has_normal_correction(branch)
+        nodes = grid.block(branches)
+        corr = any(self.has_normal_correction(b) for b in branches)
         # rates as full arrays, and as (mechanism, RateTerms) pairs; resistive and Normal
         res, nrm, res_t, nrm_t = [], [], [], []
         with np.errstate(all="ignore"):
             for m in self.scattering:
-                if m.applies(branch):
-                    r = self._node_rates(nodes, Tcol, m)
+                if any(m.applies(b) for b in branches):
+                    r = self._node_rates(nodes, m)
+                    terms = type(r) is RateTerms
                     if m.resistive or not self.normal_correction:
-                        (res_t if type(r) is RateTerms else res).append((m, r) if type(r) is RateTerms else r)
+                        (res_t if terms else res).append((m, r) if terms else r)
                     else:
-                        (nrm_t if type(r) is RateTerms else nrm).append((m, r) if type(r) is RateTerms else r)
+                        (nrm_t if terms else nrm).append((m, r) if terms else r)
             if not res and not nrm:
                 return self._separable_sums(nodes, res_t, nrm_t, corr)
             buf = nodes.scratch()
@@ -147,7 +189,7 @@ class _CallawaySums:
             else:
                 r_c = r_res
             np.divide(nodes.wbase, r_c, out=f1)
-            I = np.empty((3, Tcol.shape[0]))
+            I = np.empty((3, nodes.shape[0]))
             np.matmul(f1, nodes.ones, out=I[0])  # row sums (matrix-vector product: faster than .sum here)
             if corr:
                 # I2 = sum f1 r_n, I3 = sum f1 r_n r_res: contiguous products and matrix-vector row sums
@@ -155,84 +197,96 @@ class _CallawaySums:
                 np.matmul(g, nodes.ones, out=I[1])
                 g *= r_res
                 np.matmul(g, nodes.ones, out=I[2])
-                F1 = self._add_tails(nodes, I, r_c[:, :2], r_n[:, :2], r_res[:, :2])
+                if self._tails_negligible(nodes, I, r_c[:, 0], r_n[:, 0], r_res[:, 0]):
+                    F1 = None  # built from the two lowest columns when the Jacobian needs it
+                else:
+                    F1 = self._add_tails(nodes, I, r_c[:, :2], r_n[:, :2], r_res[:, :2])
             else:
                 F1 = self._add_tails(nodes, I, r_c[:, :2], None, None)
         ctx = _BranchContext(nodes, f1, F1, r_c, corr)
         ctx.r_res, ctx.r_n = r_res, r_n
-        return I[0], I[1], I[2], ctx
+        return I, ctx
 
     @staticmethod
     def _separable_sums(nodes: _BranchNodes, res_t: list, nrm_t: list, corr: bool):
-        """:meth:`_branch_sums` when every rate of a Debye branch comes as :class:`RateTerms`.
+        """:meth:`_block_sums` when every rate of a block of Debye branches comes as :class:`RateTerms`.
 
-        With A (n_T x kr) and B (n_T x kn) the resistive and Normal columns and
-        E_r, E_n their node rows (rate = A E_r, r_n = B E_n), one matrix
-        product gives tau_c^-1 = [A B] [E_r; E_n] and one more gives every
-        sum at once: M = f1 V with V = [1, E_n,l, E_n,l * E_r,k] (node x column),
-        so I1 = M_0, I2 = sum_l B_l M_l and I3 = sum_l,k B_l A_k M_lk -- the
-        same sums as the elementwise route, without forming r_res, r_n or
-        their products on the nodes (they are built only if a consumer asks).
-        Call inside ``np.errstate(all="ignore")``.
+        With A (n_rows x kr) and B (n_rows x kn) the resistive and Normal
+        columns and E_r, E_n their node rows (r_res = A E_r, r_n = B E_n), and
+        wbase = planck x wcol_i x wrow_j (see :class:`~kinetic.grid._BranchNodes`):
+        one matrix product gives tau_c^-1 = [A B] [E_r; E_n]; one more gives
+        every sum at once, M = (planck / tau_c^-1) V with
+        V = wrow_j [1, E_n,l, E_n,l E_r,k] (node x column); then, with
+        Q = wcol [1, B_l, B_l A_k] per row, I1 = (M Q)_0, I2 = sum_l (M Q)_l and
+        I3 = sum_lk (M Q)_lk -- the sums of the elementwise route (I2 = <r_n>,
+        I3 = <r_n r_res>) without forming r_res, r_n or their products on the
+        nodes (built only if a consumer asks). Call inside
+        ``np.errstate(all="ignore")``.
         """
         owners = res_t + nrm_t
         cols, powers = _side_by_side(owners)
         check_columns(nodes, cols, owners)
         kr = sum(len(t.powers) for _m, t in res_t)
-        rows, V = _separable_tables(nodes.branch.dispersion, powers[:kr], powers[kr:])
+        kn = cols.shape[1] - kr
+        rows, V, G, Z = _separable_tables(nodes.rule, powers[:kr], powers[kr:])
         buf = nodes.scratch()
         r_c = np.dot(cols, rows, out=buf[2])
-        f1 = np.divide(nodes.wbase, r_c, out=buf[3])
-        M = np.dot(f1, V)
-        n_T = cols.shape[0]
-        I = np.empty((3, n_T))
-        I[0] = M[:, 0]
-        A = cols[:, :kr]
-        if corr:
-            B = cols[:, kr:]
-            kn = B.shape[1]
-            I2 = B * M[:, 1:1 + kn]
-            np.sum(I2, axis=1, out=I[1])
-            I3 = np.zeros(n_T)
+        fp = np.divide(nodes.planck, r_c, out=buf[3])
+        M = np.dot(fp, V)
+        A, B = cols[:, :kr], cols[:, kr:]
+        Q = np.empty(M.shape)
+        Q[:, 0] = 1.0
+        if kn:
+            Q[:, 1:1 + kn] = B
             for j in range(kn):
-                blk = M[:, 1 + kn + j * kr:1 + kn + (j + 1) * kr]
-                blk *= A
-                I3 += blk.sum(axis=1) * B[:, j]
-            I[2] = I3
-            r_n01 = np.dot(B, rows[kr:, :2])
-            r_res01 = np.dot(A, rows[:kr, :2])
-            F1 = _CallawaySums._add_tails(nodes, I, r_c[:, :2], r_n01, r_res01)
+                np.multiply(A, B[:, j:j + 1], out=Q[:, 1 + kn + j * kr:1 + kn + (j + 1) * kr])
+        Q *= nodes.wcol[:, None]
+        M *= Q
+        I = np.dot(G, M.T)
+        if corr:
+            rz = np.dot(cols, Z)  # r_res and r_n at the lowest node
+            if _CallawaySums._tails_negligible(nodes, I, r_c[:, 0], rz[:, 1], rz[:, 0]):
+                F1 = None
+            else:
+                F1 = _CallawaySums._add_tails(nodes, I, r_c[:, :2], np.dot(B, rows[kr:, :2]),
+                                              np.dot(A, rows[:kr, :2]))
         else:
             F1 = _CallawaySums._add_tails(nodes, I, r_c[:, :2], None, None)
-        ctx = _BranchContext(nodes, f1, F1, r_c, corr)
-        ctx._terms = (A, rows[:kr], cols[:, kr:], rows[kr:])
-        return I[0], I[1], I[2], ctx
+        ctx = _BranchContext(nodes, None, F1, r_c, corr)
+        ctx._fp = fp
+        ctx._terms = (A, rows[:kr], B, rows[kr:])
+        return I, ctx
+
+    @staticmethod
+    def _tails_negligible(nodes: _BranchNodes, I: np.ndarray, r_c0, r_n0, r_res0) -> bool:
+        """True when the closed-form tails below the lowest node cannot move any sum in ``I`` (3, n_rows).
+
+        The tail is f0 u0 / (p + 1) with p + 1 > 0.1 (else none), so below
+        10 f0 u0. Where f0 u0 <= 1e-14 of every sum the tails move no sum by
+        more than 1e-13 relative -- four orders below the rule's own error
+        (median 3e-9, see kinetic.quadrature.PANELS) -- and are skipped
+        (saves a dozen small array operations). ``r_*0`` are the rates at the
+        lowest node.
+        """
+        f0 = np.empty(I.shape)
+        np.divide(nodes.base0u, r_c0, out=f0[0])
+        np.multiply(f0[0], r_n0, out=f0[1])
+        np.multiply(f0[1], r_res0, out=f0[2])
+        return bool((f0 <= 1e-14 * I).all())
 
     @staticmethod
     def _add_tails(nodes: _BranchNodes, I: np.ndarray, r_c01, r_n01, r_res01):
-        """Add the closed-form tails below the lowest node to the sums ``I`` (3, n_T), in place.
+        """Add the closed-form tails below the lowest node to the sums ``I`` (3, n_rows), in place.
 
         ``r_*01`` are the rates at the two lowest nodes (``r_n01`` None
         without Callaway's correction: then only I1 has a tail). Returns the
-        I1 integrand at the two lowest nodes (reused by the Jacobian), or None
-        where the tails were negligible and skipped.
+        I1 integrand at the two lowest nodes (reused by the Jacobian).
         """
         if r_n01 is None:
             F1 = nodes.base01 / r_c01
             I[0] += nodes.tails(F1[None])[0]
             I[1:] = 0.0
             return F1
-        # The tail below the lowest node is f0 u0 / (p + 1) with p + 1 > 0.1 (else none), so below
-        # 10 f0 u0. Where f0 u0 <= 1e-14 of every sum the tails move no sum by more than 1e-13
-        # relative -- four orders below the rule's own error (median 3e-9, see
-        # kinetic.quadrature.PANELS) -- and are skipped (saves a dozen small array operations).
-        f0 = np.empty(I.shape)
-        np.divide(nodes.base01[:, 0], r_c01[:, 0], out=f0[0])
-        np.multiply(f0[0], r_n01[:, 0], out=f0[1])
-        np.multiply(f0[1], r_res01[:, 0], out=f0[2])
-        f0 *= nodes.u0
-        if (f0 <= 1e-14 * I).all():
-            return None  # built from the two lowest columns when the Jacobian needs it
         F = np.empty(I.shape + (2,))
         np.divide(nodes.base01, r_c01, out=F[0])
         np.multiply(F[0], r_n01, out=F[1])
@@ -245,44 +299,57 @@ class _CallawaySums:
         """Callaway's kappa = I1 + I2^2 / I3 (I3 = 0 without Normal processes)."""
         return I1 + np.divide(I2 * I2, I3, out=np.zeros_like(I1), where=I3 > 0)
 
-    def _check_mean_free_path(self, grid, branch, I1, ctx):
+    def _check_mean_free_path(self, grid, branches: tuple, I1, ctx):
         """Refuse a branch whose heat is carried by phonons with unbounded mean free paths.
 
-        Only for branches without a mechanism that bounds the mean free path
-        (``limits_mean_free_path``, e.g. a boundary): the share of I1 carried by
-        phonons with mean free paths v_g tau_c beyond :data:`MAX_MEAN_FREE_PATH`
-        (tail below the lowest node included) must stay under
-        :data:`MAX_LONG_PATH_SHARE`.
+        ``I1`` and ``ctx`` are a block's (:meth:`_block_sums`). Branches with
+        a mechanism that bounds the mean free path (``limits_mean_free_path``,
+        e.g. a boundary) need only a finite integral. For the others the
+        share of I1 carried by phonons with mean free paths v_g tau_c beyond
+        :data:`MAX_MEAN_FREE_PATH` (tail below the lowest node included) must
+        stay under :data:`MAX_LONG_PATH_SHARE`.
         """
-        if any(getattr(m, "limits_mean_free_path", False) and m.applies(branch) for m in self.scattering):
-            if not np.all(np.isfinite(I1)):
-                i = int(np.flatnonzero(~np.isfinite(I1))[0])
-                raise ModelError(
-                    f"branch {branch.name!r} at T = {grid.temperature[i]:.4g} K: the conductivity integral is not "
-                    "finite (a total scattering rate of zero at some frequency)"
-                )
+        nodes = ctx.nodes
+        bounded = [any(getattr(m, "limits_mean_free_path", False) and m.applies(b) for m in self.scattering)
+                   for b in branches]
+        if all(bounded) and np.isfinite(I1.sum()):
             return
-        nodes, f1, r_c = ctx.nodes, ctx.f1, ctx.r_c
-        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
-            long = (np.broadcast_to(nodes.vg, f1.shape) / r_c) > MAX_MEAN_FREE_PATH
-            share = (np.einsum("ij,ij->i", f1, long) + np.where(long[:, 0], I1 - f1.sum(axis=1), 0.0)) / I1
-        bad = ~(share <= MAX_LONG_PATH_SHARE)
-        if np.any(bad):
-            i = int(np.flatnonzero(bad)[0])
-            raise ModelError(
-                f"branch {branch.name!r} at T = {grid.temperature[i]:.4g} K: {100 * min(share[i], 1.0):.3g}% of the "
-                f"heat would be carried by phonons with mean free paths beyond {MAX_MEAN_FREE_PATH:g} m, longer than "
-                "any specimen, because no mechanism limits long-wavelength phonons; add a boundary term, e.g. "
-                "Boundary(length=1e-3) for a 1 mm sample"
-            )
+        for i, b in enumerate(branches):
+            seg = nodes.segment(i)
+            I1b = I1[seg]
+            if bounded[i]:
+                if not np.all(np.isfinite(I1b)):
+                    t = int(np.flatnonzero(~np.isfinite(I1b))[0])
+                    raise ModelError(
+                        f"branch {b.name!r} at T = {grid.temperature[t]:.4g} K: the conductivity integral is not "
+                        "finite (a total scattering rate of zero at some frequency)"
+                    )
+                continue
+            f1, r_c = ctx.f1[seg], ctx.r_c[seg]
+            with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+                long = (np.broadcast_to(nodes.vg[seg], f1.shape) / r_c) > MAX_MEAN_FREE_PATH
+                share = (np.einsum("ij,ij->i", f1, long) + np.where(long[:, 0], I1b - f1.sum(axis=1), 0.0)) / I1b
+            bad = ~(share <= MAX_LONG_PATH_SHARE)
+            if np.any(bad):
+                t = int(np.flatnonzero(bad)[0])
+                raise ModelError(
+                    f"branch {b.name!r} at T = {grid.temperature[t]:.4g} K: {100 * min(share[t], 1.0):.3g}% of the "
+                    f"heat would be carried by phonons with mean free paths beyond {MAX_MEAN_FREE_PATH:g} m, longer "
+                    "than any specimen, because no mechanism limits long-wavelength phonons; add a boundary term, "
+                    "e.g. Boundary(length=1e-3) for a 1 mm sample"
+                )
 
     def _parts_on_grid(self, grid: TemperatureGrid) -> dict:
+        """kappa of every branch [W m^-1 K^-1] on a prepared grid, block by block."""
         out = {}
-        for b in self.branches:
-            I1, I2, I3, ctx = self._branch_sums(grid, b)
-            self._check_mean_free_path(grid, b, I1, ctx)
-            out[b.name] = self._combine(I1, I2, I3)
-        return out
+        n_T = grid.size
+        for block in self._blocks():
+            I, ctx = self._block_sums(grid, block)
+            self._check_mean_free_path(grid, block, I[0], ctx)
+            k = self._combine(I[0], I[1], I[2])
+            for i, b in enumerate(block):
+                out[b.name] = k[i * n_T:(i + 1) * n_T]
+        return {b.name: out[b.name] for b in self.branches}
 
     def kappa_parts(self, temperature) -> dict:
         """Lattice conductivity of each branch [W m^-1 K^-1], shaped like temperature.
@@ -391,31 +458,33 @@ class _CallawaySums:
         J = np.zeros((Tf.size, len(names)))
         analytic = [j for j, n in enumerate(names) if info[n] is not None]
         kappa = np.zeros(Tf.size)
-        for b in self.branches:
-            I1, I2, I3, ctx = self._branch_sums(grid, b)
-            self._check_mean_free_path(grid, b, I1, ctx)
-            kappa += self._combine(I1, I2, I3)
+        for block in self._blocks():
+            I, ctx = self._block_sums(grid, block)
+            self._check_mean_free_path(grid, block, I[0], ctx)
+            kappa += self._combine(I[0], I[1], I[2]).reshape(len(block), -1).sum(axis=0)
             if analytic:
-                self._branch_jacobian(grid, b, I1, I2, I3, ctx, names, analytic, info, J)
+                Jb = np.zeros((I.shape[1], len(names)))
+                self._block_jacobian(grid, block, I[0], I[1], I[2], ctx, names, analytic, info, Jb)
+                J += Jb.reshape(len(block), Tf.size, len(names)).sum(axis=0)
         for j, n in enumerate(names):
             if info[n] is None:
                 J[:, j] = self._difference(grid, n, self.parameter_info()[n])
         return kappa.reshape(shape), J.reshape(shape + (len(names),))
 
-    def _branch_jacobian(self, grid, branch, I1, I2, I3, ctx, names, analytic, info, J):
-        """Add one branch's exact derivatives d kappa_b / d c for the power-law parameters to J."""
+    def _block_jacobian(self, grid, branches, I1, I2, I3, ctx, names, analytic, info, J):
+        """Add a block's exact derivatives d kappa / d c for the power-law parameters to J (one row per block row)."""
         nodes, f1, F1, r_c, corr = ctx.nodes, ctx.f1, ctx.F1, ctx.r_c, ctx.corr
         mechs = {m.name: m for m in self.scattering}
         todo = []  # (column j, mechanism, d rate / d value = c * rate)
         for j in analytic:
             mname, pname = names[j].split(".", 1)
             mech = mechs[mname]
-            if mech.applies(branch):
+            if any(mech.applies(b) for b in branches):
                 todo.append((j, mech, info[names[j]] / float(getattr(mech, pname))))
         if not todo:
             return
         with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
-            if F1 is None:  # tails skipped by _branch_sums (negligible there)
+            if F1 is None:  # tails skipped by _block_sums (negligible there)
                 F1 = nodes.base01 / r_c[:, :2]
             h = f1 / r_c  # weight * base / r_c^2
             H = F1 / r_c[:, :2]
@@ -438,7 +507,7 @@ class _CallawaySums:
             for _j, mech, _c in todo:
                 kind = "res" if (mech.resistive or not self.normal_correction) else "n"
                 Hk, H01 = stack(kind)
-                rho = np.broadcast_to(self._full_node_rates(nodes, grid.Tcol, mech), nodes.shape)
+                rho = np.broadcast_to(self._full_node_rates(nodes, mech), nodes.shape)
                 sums.append(np.einsum("kij,ij->ki", Hk, rho))
                 cols.append(H01 * rho[None, :, :2])
             tails = nodes.tails(np.concatenate(cols))

@@ -11,8 +11,10 @@ NaN, infinite or negative rates are refused naming the mechanism.
 """
 from __future__ import annotations
 
+import math
 import threading
 from collections import OrderedDict
+from fractions import Fraction
 
 import numpy as np
 from scipy.constants import hbar, k as kB
@@ -101,6 +103,67 @@ def _planck_on_nodes(x, tmp=None):
     return x
 
 
+def _planck_series_coefficients(K: int) -> np.ndarray:
+    """a_k of x^2 e^x / (e^x - 1)^2 = sum_k a_k x^(2k), a_k = (1 - 2k) B_2k / (2k)!, k < K.
+
+    B_2k are Bernoulli numbers, computed exactly as fractions (Akiyama-Tanigawa
+    recurrence) before the one rounding to float; the series follows from the
+    Laurent series of x / (e^x - 1) differentiated (closed form; it converges
+    for |x| < 2 pi).
+    """
+    n = 2 * K
+    A, B = [Fraction(0)] * (n + 1), []
+    for m in range(n + 1):
+        A[m] = Fraction(1, m + 1)
+        for j in range(m, 0, -1):
+            A[j - 1] = j * (A[j - 1] - A[j])
+        B.append(A[0])
+    return np.array([float((1 - 2 * k) * B[2 * k] / math.factorial(2 * k)) for k in range(K)])
+
+
+#: Below this x the Planck weight of a Debye block comes from its Taylor series, as one matrix product
+#: (x = X_i e_j makes each term a per-row times a per-node factor). 6 terms: the next term is
+#: 2.4e-17 of the sum at x = 0.2 (the series' ratio is about (x / 2 pi)^2); checked against mpmath at
+#: 40 digits in tests/test_engine_numerics.py.
+PLANCK_SERIES_X = 0.2
+_PLANCK_A = _planck_series_coefficients(6)
+_SERIES_ROWS: dict = {}
+
+
+def _planck_debye(X: np.ndarray, rule: str) -> np.ndarray:
+    """x^2 e^x / (e^x - 1)^2 at x = X_i e_j on a Debye block's nodes, shape (n_rows, n_nodes).
+
+    The node columns where every row has x <= :data:`PLANCK_SERIES_X` (the
+    lowest frequencies: over half of the 16 units of ln u below the top node)
+    take the Taylor series as one product (X_i^2k)(a_k e_j^2k); the rest take
+    ((x/2) / sinh(x/2))^2, which has no cancellation and no overflow there.
+    The transcendental pass, the engine's largest single cost, then covers
+    fewer than half of the nodes.
+    """
+    exp_off = quad._RULES[rule][2]
+    n_rows, n = X.size, exp_off.size
+    j0 = int(np.searchsorted(exp_off, PLANCK_SERIES_X / X.max(), side="right")) if n_rows else 0
+    p = np.empty((n_rows, n))
+    if j0:
+        table = _SERIES_ROWS.get(rule)
+        if table is None:
+            k2 = 2.0 * np.arange(_PLANCK_A.size)
+            table = _SERIES_ROWS[rule] = _PLANCK_A[:, None] * exp_off[None, :] ** k2[:, None]
+            table.setflags(write=False)
+        Xp = np.empty((_PLANCK_A.size, n_rows))  # X^(2k), k = 0.. (a product with its transpose goes to BLAS as is)
+        Xp[0] = 1.0
+        np.multiply(X, X, out=Xp[1])
+        for k in range(2, _PLANCK_A.size):
+            np.multiply(Xp[k - 1], Xp[1], out=Xp[k])
+        p[:, :j0] = np.dot(Xp.T, table[:, :j0])
+    if j0 < n:
+        h = np.dot((0.5 * X)[:, None], exp_off[None, j0:])
+        s = np.sinh(h)
+        np.divide(h, s, out=h)
+        np.multiply(h, h, out=p[:, j0:])
+    return p
+
+
 _ROWS: dict = {}
 
 
@@ -121,13 +184,14 @@ def _power_rows(rule: str, powers: tuple) -> np.ndarray:
 
 
 class RateTerms:
-    """A scattering rate on a Debye branch's nodes, kept as columns: rate[i, j] = sum_k cols[i, k] e_j^powers[k].
+    """A scattering rate on Debye nodes, kept as columns: rate[i, j] = sum_k cols[i, k] e_j^powers[k].
 
-    On a Debye branch omega at node j of temperature i is (omega_max u_hi_i)
-    e_j, so a rate sum_n c_n(T) omega^n (:meth:`Mechanism.rate_terms`) is held
-    by one column per power -- c_n(T_i) (omega_max u_hi_i)^n, checked finite
-    and >= 0 -- and the node rows e_j^n; all mechanisms of a branch then sum
-    in one matrix product (:meth:`_BranchNodes.assemble`).
+    On a Debye branch omega at node j of row i (a temperature) is
+    (omega_max u_hi_i) e_j, so a rate sum_n c_n(T) omega^n
+    (:meth:`Mechanism.rate_terms`) is held by one column per power --
+    c_n(T_i) (omega_max u_hi_i)^n -- and the node rows e_j^n; all mechanisms
+    of a block of branches then sum in one matrix product. The columns are
+    checked finite and >= 0 where they are summed (:func:`check_columns`).
     """
 
     __slots__ = ("powers", "cols")
@@ -137,7 +201,7 @@ class RateTerms:
         self.cols = cols
 
     def full(self, rule: str = "debye") -> np.ndarray:
-        """The rate at every node [s^-1], shape (n_T, n_nodes)."""
+        """The rate at every node [s^-1], shape (n_rows, n_nodes)."""
         return np.dot(self.cols, _power_rows(rule, self.powers))
 
 
@@ -151,76 +215,129 @@ def _side_by_side(owners) -> tuple:
 
 
 class _BranchNodes:
-    """Quadrature nodes, Planck-weighted integrand and kept rates of one branch on one temperature grid.
+    """Quadrature nodes, Planck-weighted integrand and kept rates of a block of branches on one temperature grid.
 
-    Holds ``wbase`` = weight x integrand / tau (so an integral is a sum of
-    ``wbase / rate``), the two lowest columns of the integrand for the
-    closed-form tail, and omega at the nodes (what mechanisms see; built on
-    first use on a Debye branch, whose rates usually come as
-    :class:`RateTerms` from ``scale`` = omega_max u_hi, the per-temperature
+    A block is one or more branches with the same dispersion, stacked row by
+    row: row ``i * n_T + t`` is branch i at temperature t (``segment(i)``
+    gives a branch's rows), so every array operation of the sums covers all
+    of them at once. Holds ``wbase`` = weight x integrand / tau (an integral
+    is a row sum of ``wbase / rate``), the two lowest columns of the
+    integrand for the closed-form tail, and omega at the nodes (what
+    mechanisms see; built on first use on Debye branches, whose rates usually
+    come as :class:`RateTerms` from ``scale`` = omega_max u_hi, the per-row
     factor of omega). Scratch arrays for the sums are kept per thread, so
     repeated calls allocate nothing big.
     """
 
-    __slots__ = ("branch", "T", "u_hi", "_omega", "wbase", "base01", "u0", "log_ratio", "rates", "shape", "_vg",
-                 "ones", "separable", "scale")
+    __slots__ = ("branches", "T", "n_T", "_Trows", "u_hi", "_omega", "_wbase", "planck", "wcol", "base01", "base0u",
+                 "u0", "log_ratio", "rates", "shape", "_vg", "ones", "separable", "scale", "rule")
 
-    def __init__(self, branch: Branch, T: np.ndarray):
+    def __init__(self, branches: tuple, T: np.ndarray):
+        rule = branches[0].dispersion
+        n_b, n_T = len(branches), T.size
         # x = hbar omega / kB T at the zone edge (theta / T on a Debye branch; read from omega_max so
-        # that any convention for a sine branch's zone-edge frequency is followed)
-        x_max = (hbar * branch.omega_max / kB) / T
+        # that any convention for a sine branch's zone-edge frequency is followed), one row per (branch, T)
+        x_max = np.divide.outer(np.array([hbar * b.omega_max / kB for b in branches]), T).ravel()
         r = np.minimum(1.0, quad.X_CUT / x_max)
-        sine = branch.dispersion == "sine"
+        sine = rule == "sine"
         u_hi = (2.0 / np.pi) * np.arcsin(r) if sine else r
-        _, weights, exp_off = quad._RULES[branch.dispersion]
-        pref = branch.polarizations * branch.q_max**3 * kB / (6.0 * np.pi**2)
+        _, weights, exp_off = quad._RULES[rule]
         # wbase = weight * pref * v_g^2 * Planck * u^2, with weight = rule weight * u (du = u ds)
+        pref = np.array([b.polarizations * b.q_max**3 * kB / (6.0 * np.pi**2) for b in branches])
+        self.branches = branches
+        self.T = T
+        self.n_T = n_T
+        self._Trows = T if n_b == 1 else None
         if sine:
             u = u_hi[:, None] * exp_off[None, :]
+            omega = np.empty(u.shape)
+            vg = np.empty(u.shape)
+            for i, b in enumerate(branches):
+                seg = slice(i * n_T, (i + 1) * n_T)
+                omega[seg] = b.omega_of_u(u[seg])
+                vg[seg] = b.group_velocity_of_u(u[seg])
             wbase = u * u
             wbase *= u
-            omega = branch.omega_of_u(u)
-            vg = branch.group_velocity_of_u(u)
             wbase *= vg
             wbase *= vg
-            wbase *= (pref * weights)[None, :]
+            wbase *= (pref[:, None] * np.ones(n_T)).reshape(-1, 1) * weights[None, :]
             x = omega * (hbar / kB)
-            x /= T[:, None]
+            x /= self.Trows[:, None]
             _planck_on_nodes(x)
             wbase *= x
             omega.setflags(write=False)  # shared with the mechanisms (and their kept powers of omega)
+            planck = wcol = None
+            base01 = wbase[:, :2] / (weights[:2] * exp_off[:2] * u_hi[:, None])
         else:
-            # Debye: u = u_hi(T) e_j and x = u x_max factor into a column and a row, so
-            # wbase = u_hi^3 (pref v^2 w_j e_j^3) ((x/2) / sinh(x/2))^2: two rank-one products (np.dot
-            # hands them to BLAS: twice as fast as np.multiply.outer or a broadcast product on these
-            # shapes, and four times np.matmul, which does not), one sinh and three in-place passes
-            h = np.dot((0.5 * u_hi * x_max)[:, None], exp_off[None, :], out=_scratch((T.size, exp_off.size))[0])
-            wbase = np.sinh(h)
-            np.divide(h, wbase, out=wbase)
-            np.multiply(wbase, wbase, out=wbase)
-            wbase *= np.dot((pref * branch.velocity**2 * u_hi**3)[:, None], (weights * exp_off**3)[None, :], out=h)
-            omega = None
-        self.branch = branch
-        self.T = T
+            # Debye: u = u_hi e_j and x = u x_max factor into a column and a row, so
+            # wbase = P(x) wcol_i wrow_j with P = ((x/2) / sinh(x/2))^2, wcol = pref v^2 u_hi^3 and
+            # wrow = w_j e_j^3 (the rule's weights times e_j^3). Only P is built on the nodes
+            # (_planck_debye); the sums take wrow into their node table and wcol after the row sums (see
+            # _CallawaySums._separable_sums), and wbase itself is built only for the node-by-node route.
+            planck = _planck_debye(u_hi * x_max, rule)
+            wcol = (u_hi**3).reshape(n_b, n_T)
+            wcol *= (pref * np.array([b.velocity**2 for b in branches]))[:, None]
+            wcol = wcol.ravel()
+            omega = vg = wbase = None
+            # wbase / (weight u) at the two lowest nodes: wrow_j / (w_j e_j u_hi) = e_j^2 / u_hi
+            base01 = planck[:, :2] * (wcol / u_hi)[:, None]
+            base01 *= exp_off[:2] ** 2
+        self.rule = rule
         self.u_hi = u_hi
         self.separable = not sine
-        self.scale = branch.omega_max * u_hi
+        scale = u_hi.reshape(n_b, n_T) * np.array([b.omega_max for b in branches])[:, None]
+        self.scale = scale.ravel()
         self._omega = omega
-        self.wbase = wbase
-        w01 = weights[:2] * exp_off[:2] * u_hi[:, None]
-        self.base01 = wbase[:, :2] / w01
+        self._vg = vg
+        self._wbase = wbase
+        self.planck = planck
+        self.wcol = wcol
+        self.base01 = base01
         self.u0 = u_hi * exp_off[0]
-        self.log_ratio = quad.log_ratio(branch.dispersion)
-        self.shape = wbase.shape
-        self.ones = _ones(wbase.shape[1])
+        self.base0u = base01[:, 0] * self.u0
+        self.log_ratio = quad.log_ratio(rule)
+        self.shape = (u_hi.size, exp_off.size)
+        self.ones = _ones(exp_off.size)
         self.rates: dict = {}
-        self._vg = None
+
+    @property
+    def Trows(self) -> np.ndarray:
+        """Temperature of every row [K] (the grid's temperatures once per branch)."""
+        if self._Trows is None:
+            self._Trows = np.tile(self.T, len(self.branches))
+        return self._Trows
+
+    @property
+    def Tcol(self) -> np.ndarray:
+        """:attr:`Trows` as a column (n_rows, 1), for rates evaluated node by node."""
+        return self.Trows[:, None]
+
+    @property
+    def wbase(self) -> np.ndarray:
+        """weight x Planck-weighted integrand on the nodes, so an integral is a row sum of ``wbase / rate``."""
+        if self._wbase is None:
+            self._wbase = self.planck * self.weight_scale()
+        return self._wbase
+
+    def weight_scale(self) -> np.ndarray:
+        """wcol_i wrow_j on a Debye block's nodes (wbase = planck x this), built afresh."""
+        _, weights, exp_off = quad._RULES[self.rule]
+        return np.dot(self.wcol[:, None], (weights * exp_off**3)[None, :])
+
+    @property
+    def branch(self) -> Branch:
+        """The branch of a one-branch block."""
+        return self.branches[0]
+
+    def segment(self, i: int) -> slice:
+        """The rows of the block's i-th branch."""
+        return slice(i * self.n_T, (i + 1) * self.n_T)
 
     @property
     def omega(self) -> np.ndarray:
-        """Angular frequency at the nodes [rad/s], shape (n_T, n_nodes), read-only."""
+        """Angular frequency at the nodes [rad/s], shape (n_rows, n_nodes), read-only."""
         if self._omega is None:
-            om = np.dot(self.scale[:, None], quad._RULES[self.branch.dispersion][2][None, :])
+            om = np.dot(self.scale[:, None], quad._RULES[self.rule][2][None, :])
             om.setflags(write=False)  # shared with the mechanisms (and their kept powers of omega)
             self._omega = om
         return self._omega
@@ -237,7 +354,7 @@ class _BranchNodes:
             return _sum_into(out, full)
         cols, powers = _side_by_side(owners)
         check_columns(self, cols, owners)
-        np.dot(cols, _power_rows(self.branch.dispersion, powers), out=out)
+        np.dot(cols, _power_rows(self.rule, powers), out=out)
         for r in full:
             np.add(out, r, out=out)
         return out
@@ -247,7 +364,7 @@ class _BranchNodes:
         return quad.tail_from_columns(self.u0, f01[:, 0], f01[:, 1], self.log_ratio)
 
     def tails(self, f01):
-        """:meth:`tail` of several integrands at once, ``f01`` of shape (k, n_T, 2) -> (k, n_T).
+        """:meth:`tail` of several integrands at once, ``f01`` of shape (k, n_rows, 2) -> (k, n_rows).
 
         Call inside ``np.errstate(divide="ignore", invalid="ignore")``: a zero
         or non-positive integrand gives a NaN power, which fails the test
@@ -267,21 +384,16 @@ class _BranchNodes:
 
     @property
     def vg(self):
-        """Group velocity at the nodes [m/s] (a float on a Debye branch)."""
+        """Group velocity at the nodes [m/s]: a column (n_rows, 1) on Debye branches, else (n_rows, n_nodes)."""
         if self._vg is None:
-            b = self.branch
-            if b.dispersion == "sine":
-                self._vg = b.group_velocity_of_u(self.u_hi[:, None] * quad._RULES["sine"][2][None, :])
-            else:
-                self._vg = b.velocity
+            self._vg = np.repeat(np.array([b.velocity for b in self.branches]), self.n_T)[:, None]
         return self._vg
 
     def full(self):
         """u, weights, Planck weight at the nodes (rebuilt: for heat capacity and spectra)."""
-        b = self.branch
-        _, weights, exp_off = quad._RULES[b.dispersion]
+        _, weights, exp_off = quad._RULES[self.rule]
         u = self.u_hi[:, None] * exp_off[None, :]
-        x = (hbar / kB) * self.omega / self.T[:, None]
+        x = (hbar / kB) * self.omega / self.Tcol
         return u, weights[None, :] * u, _planck_on_nodes(x)
 
 
@@ -329,15 +441,19 @@ class TemperatureGrid:
 
     def nodes(self, branch: Branch) -> _BranchNodes:
         """Nodes of one branch (built on first use and kept)."""
+        return self.block((branch,))
+
+    def block(self, branches: tuple) -> _BranchNodes:
+        """Nodes of a block of branches with one dispersion, stacked row by row (built on first use and kept)."""
         try:
-            return self._nodes[branch]
+            return self._nodes[branches]
         except KeyError:
             pass
-        n = _BranchNodes(branch, self.temperature)
+        n = _BranchNodes(branches, self.temperature)
         with _LOCK:
             if len(self._nodes) >= 16:
                 self._nodes.pop(next(iter(self._nodes)), None)
-            return self._nodes.setdefault(branch, n)
+            return self._nodes.setdefault(branches, n)
 
 
 def _key(T: np.ndarray) -> bytes:
@@ -444,35 +560,58 @@ def _checked_rate(mech, branch, omega, Tcol):
     return r
 
 
-def _checked_terms(mech, nodes):
-    """A mechanism's rate on a Debye branch's nodes as :class:`RateTerms`, or None when it has no such form.
+def block_rate(mech, nodes) -> np.ndarray:
+    """A mechanism's checked rate on every node of a block, zero on the branches it does not apply to."""
+    if len(nodes.branches) == 1:
+        return _checked_rate(mech, nodes.branch, nodes.omega, nodes.Tcol)
+    out = np.zeros(nodes.shape)
+    omega, Tcol = nodes.omega, nodes.Tcol
+    for i, b in enumerate(nodes.branches):
+        if mech.applies(b):
+            seg = nodes.segment(i)
+            out[seg] = _checked_rate(mech, b, omega[seg], Tcol[seg])
+    return out
 
-    The columns c_n(T) (omega_max u_hi)^n are checked (finite and >= 0) where
-    the rates of a branch are summed, all mechanisms at once
-    (:func:`check_columns`); call inside ``np.errstate(all="ignore")``.
+
+def _checked_terms(mech, nodes):
+    """A mechanism's rate on a block of Debye branches as :class:`RateTerms`, or None when it has no such form.
+
+    One column per power met on any branch of the block (zero on rows of
+    branches without it, or that the mechanism does not apply to). The
+    columns are checked finite and >= 0 where the rates are summed, all
+    mechanisms at once (:func:`check_columns`); call inside
+    ``np.errstate(all="ignore")``.
     """
-    branch = nodes.branch
+    branch = None
     try:
-        terms = mech.rate_terms(branch, nodes.T)
-        if terms is None:
-            return None
-        terms = tuple(terms)
-        cols = np.empty((nodes.T.size, len(terms)))
-        powers = []
-        for k, (n, c) in enumerate(terms):
-            n = float(n)
-            if n < 0.0:  # e_j^n would grow without bound toward low frequency: checked on every node instead
+        per, powers = [], []
+        for i, branch in enumerate(nodes.branches):
+            if not mech.applies(branch):
+                continue
+            terms = mech.rate_terms(branch, nodes.T)
+            if terms is None:
                 return None
-            cols[:, k] = c
+            terms = tuple((float(n), c) for n, c in terms)
+            for n, _c in terms:
+                if n < 0.0:  # e_j^n would grow without bound toward low frequency: checked on every node instead
+                    return None
+                if n not in powers:
+                    powers.append(n)
+            per.append((i, terms))
+        cols = np.zeros((nodes.Trows.size, len(powers)))
+        for i, terms in per:
+            seg = nodes.segment(i)
+            for n, c in terms:
+                cols[seg, powers.index(n)] += c
+        for k, n in enumerate(powers):
             if n != 0.0:
                 cols[:, k] *= nodes.scale**n
-            powers.append(n)
     except (KineticError, MemoryError, KeyboardInterrupt):
         raise
     except Exception as exc:
+        where = f" on branch {branch.name!r}" if branch is not None else ""
         raise ModelError(
-            f"mechanism {mech.name!r} ({type(mech).__name__}) failed on branch {branch.name!r}: "
-            f"{type(exc).__name__}: {exc}"
+            f"mechanism {mech.name!r} ({type(mech).__name__}) failed{where}: {type(exc).__name__}: {exc}"
         ) from exc
     return RateTerms(tuple(powers), cols)
 
@@ -480,25 +619,25 @@ def _checked_terms(mech, nodes):
 def check_columns(nodes, cols: np.ndarray, owners) -> None:
     """Refuse RateTerms columns that are not finite and >= 0, naming the mechanism.
 
-    ``cols`` are the columns of every RateTerms of a branch side by side,
+    ``cols`` are the columns of every RateTerms of a block side by side,
     ``owners`` the ``(mechanism, RateTerms)`` pairs they came from. The node
     rows e_j^n are positive and at most 1 (e_j^n for n >= 0), so finite,
     non-negative columns with a finite sum give finite, non-negative rates.
-    Two reductions over n_T x k numbers: the check costs O(n_T), not O(n_T x
-    nodes). A bad column is described by :func:`_checked_rate` on the full
-    nodes (the mechanism, the branch, omega and T of the first bad value).
+    Two reductions over n_rows x k numbers: the check costs O(n_T), not
+    O(n_T x nodes). A bad column is described by :func:`_checked_rate` on the
+    full nodes (the mechanism, the branch, omega and T of the first bad value).
     """
     if not cols.size or (cols.min() >= 0.0 and np.isfinite(cols.sum())):
         return
-    branch = nodes.branch
+    names = ", ".join(repr(b.name) for b in nodes.branches)
     for mech, t in owners:
         if not (t.cols.min() >= 0.0 and np.isfinite(t.cols.sum())):
-            _checked_rate(mech, branch, nodes.omega, nodes.T[:, None])
+            block_rate(mech, nodes)
             raise ModelError(
                 f"mechanism {mech.name!r} ({type(mech).__name__}) returned scattering rates too large to "
-                f"represent on branch {branch.name!r}; a rate 1/tau must be finite and >= 0 [s^-1]"
+                f"represent on branch {names}; a rate 1/tau must be finite and >= 0 [s^-1]"
             )
-    raise ModelError(f"the scattering rates on branch {branch.name!r} are too large to sum "
+    raise ModelError(f"the scattering rates on branch {names} are too large to sum "
                      "(over 1e308 s^-1); a rate 1/tau must be finite [s^-1]")
 
 

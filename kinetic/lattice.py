@@ -287,7 +287,7 @@ class LatticeModel(_CallawaySums):
         """Callaway integrals (I1, I2, I3) and node arrays of one branch (spectral output)."""
         grid = prepared_grid(T)
         I1, I2, I3, ctx = self._branch_sums(grid, branch)
-        self._check_mean_free_path(grid, branch, I1, ctx)
+        self._check_mean_free_path(grid, (branch,), I1, ctx)
         nodes, r_c = ctx.nodes, ctx.r_c
         r_nn = ctx.r_n if ctx.corr else np.zeros(nodes.shape)
         u, w, _ = nodes.full()

@@ -220,3 +220,28 @@ def test_no_runtime_warnings_at_extreme_temperatures():
             sp = model.spectral(1e-3), model.spectral(1e5)
             assert np.all(np.isfinite(k)) and np.all(k > 0) and np.all(np.isfinite(J)) and np.all(c > 0)
             assert all(np.isfinite(x.kappa) for x in sp)
+
+
+def test_planck_weight_on_debye_nodes_matches_mpmath():
+    # The Debye block's Planck weight takes the Taylor series (exact Bernoulli coefficients) on the
+    # low-frequency node columns and ((x/2)/sinh(x/2))^2 above; both against x^2 e^x / (e^x - 1)^2 at
+    # 40 digits. 4e-15: a few roundings of a ~1 quantity (the series) or of sinh (numpy's own ulp-level
+    # accuracy), far below the rule's 1e-8.
+    import mpmath
+
+    from kinetic import grid
+    from kinetic import quadrature as quad
+
+    a = grid._planck_series_coefficients(8)
+    e = quad._RULES["debye"][2]
+    X = np.array([46.0, 30.0, 5.0, 1.0, 0.3, 0.05, 1e-4])
+    P = grid._planck_debye(X, "debye")
+    x = X[:, None] * e[None, :]
+    with mpmath.workdps(40):
+        exact = [(1 - 2 * k) * mpmath.bernoulli(2 * k) / mpmath.factorial(2 * k) for k in range(8)]
+        ref = np.array([[float(v * v * mpmath.exp(v) / mpmath.expm1(v) ** 2) for v in map(mpmath.mpf, row)]
+                        for row in x])
+    assert [float(c) for c in exact] == pytest.approx(list(a), rel=1e-15)
+    np.testing.assert_allclose(P, ref, rtol=4e-15)
+    # both forms are used: at X = 46 the series covers the columns with x <= 0.2, sinh the rest
+    assert 0 < np.sum(x[0] <= grid.PLANCK_SERIES_X) < e.size
