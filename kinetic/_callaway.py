@@ -166,7 +166,6 @@ class _CallawaySums:
         Normal term gets I2 = I3 = 0 and kappa = I1.
         """
         nodes = grid.block(branches)
-        corr = any(self.has_normal_correction(b) for b in branches)
         # rates as full arrays, and as (mechanism, RateTerms) pairs; resistive and Normal
         res, nrm, res_t, nrm_t = [], [], [], []
         with np.errstate(all="ignore"):
@@ -178,6 +177,8 @@ class _CallawaySums:
                         (res_t if terms else res).append((m, r) if terms else r)
                     else:
                         (nrm_t if terms else nrm).append((m, r) if terms else r)
+            # Callaway's correction wherever a Normal term applies (has_normal_correction, per block)
+            corr = bool(nrm or nrm_t)
             if not res and not nrm:
                 return self._separable_sums(nodes, res_t, nrm_t, corr)
             buf = nodes.scratch()
@@ -339,16 +340,23 @@ class _CallawaySums:
                     "e.g. Boundary(length=1e-3) for a 1 mm sample"
                 )
 
-    def _parts_on_grid(self, grid: TemperatureGrid) -> dict:
-        """kappa of every branch [W m^-1 K^-1] on a prepared grid, block by block."""
+    def _parts_on_grid(self, grid: TemperatureGrid, total: bool = False):
+        """kappa of every branch [W m^-1 K^-1] on a prepared grid, block by block (their sum if ``total``)."""
         out = {}
         n_T = grid.size
+        k_sum = None
         for block in self._blocks():
             I, ctx = self._block_sums(grid, block)
             self._check_mean_free_path(grid, block, I[0], ctx)
             k = self._combine(I[0], I[1], I[2])
+            if total:
+                k = k.reshape(len(block), n_T).sum(axis=0) if len(block) > 1 else k
+                k_sum = k if k_sum is None else k_sum + k
+                continue
             for i, b in enumerate(block):
                 out[b.name] = k[i * n_T:(i + 1) * n_T]
+        if total:
+            return k_sum
         return {b.name: out[b.name] for b in self.branches}
 
     def kappa_parts(self, temperature) -> dict:
@@ -392,11 +400,18 @@ class _CallawaySums:
         >>> round(float(m.kappa(1.0)), 4)   # Casimir limit: 1.6308 W/m/K
         1.6308
         """
-        parts = self.kappa_parts(temperature)
-        total = None
-        for v in parts.values():
-            total = v.copy() if total is None else total + v
-        return total
+        grid = temperature if isinstance(temperature, TemperatureGrid) else _cached_grid(temperature)
+        if grid is not None:
+            return self._parts_on_grid(grid, total=True).reshape(grid.shape)
+        T = _temperature(temperature)
+        shape = np.shape(T)
+        Tf = np.ascontiguousarray(np.atleast_1d(T), dtype=float).ravel()
+        if Tf.size <= BLOCK_T:
+            k = self._parts_on_grid(_prepared_checked(Tf), total=True)
+        else:
+            k = np.concatenate([self._parts_on_grid(_new_grid(Tf[i:i + BLOCK_T]), total=True)
+                                for i in range(0, Tf.size, BLOCK_T)])
+        return k.reshape(shape)
 
     def kappa_jacobian(self, temperature, names: Sequence[str]):
         """Conductivity and its derivatives with respect to model parameters.

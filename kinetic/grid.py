@@ -214,6 +214,27 @@ def _side_by_side(owners) -> tuple:
             sum((t.powers for _m, t in owners), ()))
 
 
+_CONSTANTS: dict = {}
+
+
+def _block_constants(branches: tuple) -> tuple:
+    """Per-branch constants of a block as (n_b, 1) columns, kept: (hbar omega_max / kB [K], pref [W m^-1 K^-1 s],
+    pref v^2, omega_max [rad/s]) with pref = p q_max^3 kB / (6 pi^2)."""
+    hit = _CONSTANTS.get(branches)
+    if hit is None:
+        theta = np.array([[hbar * b.omega_max / kB] for b in branches])
+        pref = np.array([[b.polarizations * b.q_max**3 * kB / (6.0 * np.pi**2)] for b in branches])
+        pv2 = pref * np.array([[b.velocity**2] for b in branches])
+        wmax = np.array([[b.omega_max] for b in branches])
+        hit = (theta, pref, pv2, wmax)
+        for a in hit:
+            a.setflags(write=False)
+        if len(_CONSTANTS) >= 64:
+            _CONSTANTS.pop(next(iter(_CONSTANTS)), None)
+        _CONSTANTS[branches] = hit
+    return hit
+
+
 class _BranchNodes:
     """Quadrature nodes, Planck-weighted integrand and kept rates of a block of branches on one temperature grid.
 
@@ -230,20 +251,20 @@ class _BranchNodes:
     """
 
     __slots__ = ("branches", "T", "n_T", "_Trows", "u_hi", "_omega", "_wbase", "planck", "wcol", "base01", "base0u",
-                 "u0", "log_ratio", "rates", "shape", "_vg", "ones", "separable", "scale", "rule")
+                 "u0", "log_ratio", "rates", "shape", "_vg", "ones", "separable", "scale", "_scale_pow", "rule")
 
     def __init__(self, branches: tuple, T: np.ndarray):
         rule = branches[0].dispersion
         n_b, n_T = len(branches), T.size
         # x = hbar omega / kB T at the zone edge (theta / T on a Debye branch; read from omega_max so
         # that any convention for a sine branch's zone-edge frequency is followed), one row per (branch, T)
-        x_max = np.divide.outer(np.array([hbar * b.omega_max / kB for b in branches]), T).ravel()
+        theta, pref, pv2, wmax = _block_constants(branches)
+        x_max = (theta / T).ravel()
         r = np.minimum(1.0, quad.X_CUT / x_max)
         sine = rule == "sine"
         u_hi = (2.0 / np.pi) * np.arcsin(r) if sine else r
         _, weights, exp_off = quad._RULES[rule]
         # wbase = weight * pref * v_g^2 * Planck * u^2, with weight = rule weight * u (du = u ds)
-        pref = np.array([b.polarizations * b.q_max**3 * kB / (6.0 * np.pi**2) for b in branches])
         self.branches = branches
         self.T = T
         self.n_T = n_T
@@ -260,7 +281,7 @@ class _BranchNodes:
             wbase *= u
             wbase *= vg
             wbase *= vg
-            wbase *= (pref[:, None] * np.ones(n_T)).reshape(-1, 1) * weights[None, :]
+            wbase *= (pref * np.ones(n_T)).reshape(-1, 1) * weights[None, :]
             x = omega * (hbar / kB)
             x /= self.Trows[:, None]
             _planck_on_nodes(x)
@@ -276,7 +297,7 @@ class _BranchNodes:
             # _CallawaySums._separable_sums), and wbase itself is built only for the node-by-node route.
             planck = _planck_debye(u_hi * x_max, rule)
             wcol = (u_hi**3).reshape(n_b, n_T)
-            wcol *= (pref * np.array([b.velocity**2 for b in branches]))[:, None]
+            wcol *= pv2
             wcol = wcol.ravel()
             omega = vg = wbase = None
             # wbase / (weight u) at the two lowest nodes: wrow_j / (w_j e_j u_hi) = e_j^2 / u_hi
@@ -285,8 +306,8 @@ class _BranchNodes:
         self.rule = rule
         self.u_hi = u_hi
         self.separable = not sine
-        scale = u_hi.reshape(n_b, n_T) * np.array([b.omega_max for b in branches])[:, None]
-        self.scale = scale.ravel()
+        self.scale = (u_hi.reshape(n_b, n_T) * wmax).ravel()
+        self._scale_pow: dict = {}
         self._omega = omega
         self._vg = vg
         self._wbase = wbase
@@ -323,6 +344,17 @@ class _BranchNodes:
         """wcol_i wrow_j on a Debye block's nodes (wbase = planck x this), built afresh."""
         _, weights, exp_off = quad._RULES[self.rule]
         return np.dot(self.wcol[:, None], (weights * exp_off**3)[None, :])
+
+    def scale_powers(self, powers: tuple) -> np.ndarray:
+        """scale^n for each n of ``powers``, shape (n_rows, len(powers)), kept per tuple (read-only)."""
+        pw = self._scale_pow.get(powers)
+        if pw is None:
+            pw = np.empty((self.scale.size, len(powers)))
+            for k, n in enumerate(powers):
+                pw[:, k] = 1.0 if n == 0.0 else self.scale**n
+            pw.setflags(write=False)
+            self._scale_pow[powers] = pw
+        return pw
 
     @property
     def branch(self) -> Branch:
@@ -591,21 +623,20 @@ def _checked_terms(mech, nodes):
             terms = mech.rate_terms(branch, nodes.T)
             if terms is None:
                 return None
-            terms = tuple((float(n), c) for n, c in terms)
-            for n, _c in terms:
-                if n < 0.0:  # e_j^n would grow without bound toward low frequency: checked on every node instead
-                    return None
-                if n not in powers:
-                    powers.append(n)
             per.append((i, terms))
-        cols = np.zeros((nodes.Trows.size, len(powers)))
+            for n, _c in terms:
+                if n not in powers:
+                    if not n >= 0.0:  # e_j^n would grow without bound toward low frequency: checked node by node
+                        return None
+                    powers.append(n)
+        powers = tuple(float(n) for n in powers)
+        cols = np.zeros((len(nodes.branches), nodes.n_T, len(powers)))
         for i, terms in per:
-            seg = nodes.segment(i)
             for n, c in terms:
-                cols[seg, powers.index(n)] += c
-        for k, n in enumerate(powers):
-            if n != 0.0:
-                cols[:, k] *= nodes.scale**n
+                cols[i, :, powers.index(n)] += c
+        cols = cols.reshape(-1, len(powers))
+        if powers != (0.0,):
+            cols *= nodes.scale_powers(powers)
     except (KineticError, MemoryError, KeyboardInterrupt):
         raise
     except Exception as exc:
@@ -613,7 +644,7 @@ def _checked_terms(mech, nodes):
         raise ModelError(
             f"mechanism {mech.name!r} ({type(mech).__name__}) failed{where}: {type(exc).__name__}: {exc}"
         ) from exc
-    return RateTerms(tuple(powers), cols)
+    return RateTerms(powers, cols)
 
 
 def check_columns(nodes, cols: np.ndarray, owners) -> None:

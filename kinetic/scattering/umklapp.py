@@ -104,4 +104,7 @@ class Umklapp(Mechanism):
     def rate_terms(self, branch, T):
         T = np.asarray(T, dtype=float)
         # exp of a large negative argument underflows quietly to 0 (no warning).
-        return ((2.0, self.coefficient(branch) * T * np.exp(-branch.debye_temperature / (self.b * T))),)
+        c = np.exp((-branch.debye_temperature / self.b) / T)
+        c *= T
+        c *= self.coefficient(branch)
+        return ((2.0, c),)
