@@ -142,19 +142,38 @@ class _CallawaySums:
         r = self._node_rates(nodes, mech)
         return r.full(nodes.rule) if type(r) is RateTerms else r
 
-    def _blocks(self) -> list:
-        """The model's branches grouped by dispersion (model order within a group): the engine's blocks."""
-        groups: dict = {}
-        for b in self.branches:
-            groups.setdefault(b.dispersion, []).append(b)
-        return [tuple(g) for g in groups.values()]
+    def _plan(self) -> tuple:
+        """The engine's blocks: ``((branches, entries, bounded), ...)``, kept on the model.
+
+        Branches are grouped by dispersion (model order within a group);
+        ``entries`` are ``(index into scattering, resistive)`` for every
+        mechanism that applies to some branch of the block, ``bounded`` says
+        per branch whether a mechanism bounds the mean free path. Parameter
+        values do not enter, so :meth:`with_params` hands the plan on.
+        """
+        plan = self.__dict__.get("_plan_cache")
+        if plan is None:
+            groups: dict = {}
+            for b in self.branches:
+                groups.setdefault(b.dispersion, []).append(b)
+            plan = tuple((tuple(g), self._entries(tuple(g)), self._bounded(tuple(g))) for g in groups.values())
+            object.__setattr__(self, "_plan_cache", plan)
+        return plan
+
+    def _entries(self, branches: tuple) -> tuple:
+        return tuple((i, m.resistive or not self.normal_correction) for i, m in enumerate(self.scattering)
+                     if any(m.applies(b) for b in branches))
+
+    def _bounded(self, branches: tuple) -> tuple:
+        return tuple(any(getattr(m, "limits_mean_free_path", False) and m.applies(b) for m in self.scattering)
+                     for b in branches)
 
     def _branch_sums(self, grid: TemperatureGrid, branch: Branch):
         """Callaway integrals ``(I1, I2, I3, ctx)`` of one branch on a prepared grid (a block of one)."""
         I, ctx = self._block_sums(grid, (branch,))
         return I[0], I[1], I[2], ctx
 
-    def _block_sums(self, grid: TemperatureGrid, branches: tuple):
+    def _block_sums(self, grid: TemperatureGrid, branches: tuple, entries: tuple | None = None):
         """Callaway integrals of a block of branches (one dispersion) on a prepared grid.
 
         Returns ``(I, ctx)``: ``I`` of shape (3, n_rows) holds I1, I2, I3 for
@@ -166,17 +185,18 @@ class _CallawaySums:
         Normal term gets I2 = I3 = 0 and kappa = I1.
         """
         nodes = grid.block(branches)
+        scattering = self.scattering
         # rates as full arrays, and as (mechanism, RateTerms) pairs; resistive and Normal
         res, nrm, res_t, nrm_t = [], [], [], []
         with np.errstate(all="ignore"):
-            for m in self.scattering:
-                if any(m.applies(b) for b in branches):
-                    r = self._node_rates(nodes, m)
-                    terms = type(r) is RateTerms
-                    if m.resistive or not self.normal_correction:
-                        (res_t if terms else res).append((m, r) if terms else r)
-                    else:
-                        (nrm_t if terms else nrm).append((m, r) if terms else r)
+            for i, resistive in (self._entries(branches) if entries is None else entries):
+                m = scattering[i]
+                r = self._node_rates(nodes, m)
+                terms = type(r) is RateTerms
+                if resistive:
+                    (res_t if terms else res).append((m, r) if terms else r)
+                else:
+                    (nrm_t if terms else nrm).append((m, r) if terms else r)
             # Callaway's correction wherever a Normal term applies (has_normal_correction, per block)
             corr = bool(nrm or nrm_t)
             if not res and not nrm:
@@ -300,7 +320,7 @@ class _CallawaySums:
         """Callaway's kappa = I1 + I2^2 / I3 (I3 = 0 without Normal processes)."""
         return I1 + np.divide(I2 * I2, I3, out=np.zeros_like(I1), where=I3 > 0)
 
-    def _check_mean_free_path(self, grid, branches: tuple, I1, ctx):
+    def _check_mean_free_path(self, grid, branches: tuple, I1, ctx, bounded: tuple | None = None):
         """Refuse a branch whose heat is carried by phonons with unbounded mean free paths.
 
         ``I1`` and ``ctx`` are a block's (:meth:`_block_sums`). Branches with
@@ -311,8 +331,8 @@ class _CallawaySums:
         stay under :data:`MAX_LONG_PATH_SHARE`.
         """
         nodes = ctx.nodes
-        bounded = [any(getattr(m, "limits_mean_free_path", False) and m.applies(b) for m in self.scattering)
-                   for b in branches]
+        if bounded is None:
+            bounded = self._bounded(branches)
         if all(bounded) and np.isfinite(I1.sum()):
             return
         for i, b in enumerate(branches):
@@ -345,9 +365,9 @@ class _CallawaySums:
         out = {}
         n_T = grid.size
         k_sum = None
-        for block in self._blocks():
-            I, ctx = self._block_sums(grid, block)
-            self._check_mean_free_path(grid, block, I[0], ctx)
+        for block, entries, bounded in self._plan():
+            I, ctx = self._block_sums(grid, block, entries)
+            self._check_mean_free_path(grid, block, I[0], ctx, bounded)
             k = self._combine(I[0], I[1], I[2])
             if total:
                 k = k.reshape(len(block), n_T).sum(axis=0) if len(block) > 1 else k
@@ -473,9 +493,9 @@ class _CallawaySums:
         J = np.zeros((Tf.size, len(names)))
         analytic = [j for j, n in enumerate(names) if info[n] is not None]
         kappa = np.zeros(Tf.size)
-        for block in self._blocks():
-            I, ctx = self._block_sums(grid, block)
-            self._check_mean_free_path(grid, block, I[0], ctx)
+        for block, entries, bounded in self._plan():
+            I, ctx = self._block_sums(grid, block, entries)
+            self._check_mean_free_path(grid, block, I[0], ctx, bounded)
             kappa += self._combine(I[0], I[1], I[2]).reshape(len(block), -1).sum(axis=0)
             if analytic:
                 Jb = np.zeros((I.shape[1], len(names)))

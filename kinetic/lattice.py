@@ -195,6 +195,9 @@ class LatticeModel(_CallawaySums):
         for f, val in (("branches", self.branches), ("scattering", new),
                        ("normal_correction", self.normal_correction), ("material", self.material)):
             object.__setattr__(out, f, val)
+        plan = self.__dict__.get("_plan_cache")  # the engine's blocks depend on structure only
+        if plan is not None:
+            object.__setattr__(out, "_plan_cache", plan)
         return out
 
     def with_mechanism(self, mechanism: Mechanism) -> "LatticeModel":
