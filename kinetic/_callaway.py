@@ -237,9 +237,9 @@ class _CallawaySums:
         wbase = planck x wcol_i x wrow_j (see :class:`~kinetic.grid._BranchNodes`):
         one matrix product gives tau_c^-1 = [A B] [E_r; E_n]; one more gives
         every sum at once, M = (planck / tau_c^-1) V with
-        V = wrow_j [1, E_n,l, E_n,l E_r,k] (node x column); then, with
-        Q = wcol [1, B_l, B_l A_k] per row, I1 = (M Q)_0, I2 = sum_l (M Q)_l and
-        I3 = sum_lk (M Q)_lk -- the sums of the elementwise route (I2 = <r_n>,
+        V = wrow_j [1, E_n,l, E_n,l E_r,k] (node x column); then, with M's
+        columns scaled by wcol [1, B_l, B_l A_k] row by row, I1 = M_0,
+        I2 = sum_l M_l and I3 = sum_lk M_lk -- the sums of the elementwise route (I2 = <r_n>,
         I3 = <r_n r_res>) without forming r_res, r_n or their products on the
         nodes (built only if a consumer asks). Call inside
         ``np.errstate(all="ignore")``.
@@ -255,14 +255,13 @@ class _CallawaySums:
         fp = np.divide(nodes.planck, r_c, out=buf[3])
         M = np.dot(fp, V)
         A, B = cols[:, :kr], cols[:, kr:]
-        Q = np.empty(M.shape)
-        Q[:, 0] = 1.0
+        M *= nodes.wcol[:, None]
         if kn:
-            Q[:, 1:1 + kn] = B
+            M[:, 1:1 + kn] *= B
             for j in range(kn):
-                np.multiply(A, B[:, j:j + 1], out=Q[:, 1 + kn + j * kr:1 + kn + (j + 1) * kr])
-        Q *= nodes.wcol[:, None]
-        M *= Q
+                blk = M[:, 1 + kn + j * kr:1 + kn + (j + 1) * kr]
+                blk *= A
+                blk *= B[:, j:j + 1]
         I = np.dot(G, M.T)
         if corr:
             rz = np.dot(cols, Z)  # r_res and r_n at the lowest node
