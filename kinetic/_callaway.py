@@ -17,7 +17,7 @@ import numpy as np
 from . import quadrature as quad
 from .dispersion import Branch
 from .errors import ModelError, ParameterError
-from .grid import (BLOCK_T, CACHE_RATES, RateTerms, TemperatureGrid, _BranchNodes, _LOCK, _cached_grid,
+from .grid import (BLOCK_T, CACHE_RATE_BYTES, CACHE_RATES, RateTerms, TemperatureGrid, _BranchNodes, _LOCK, _cached_grid,
                    _checked_terms, block_rate, _new_grid, _power_rows, _prepared_checked, _side_by_side,
                    _temperature, check_columns)
 
@@ -131,9 +131,12 @@ class _CallawaySums:
         except TypeError:  # a mechanism with unhashable fields: not kept
             return self._new_rates(nodes, mech)
         r = self._new_rates(nodes, mech)
+        size = r.cols.nbytes if type(r) is RateTerms else np.asarray(r).nbytes
         with _LOCK:
-            if len(nodes.rates) >= CACHE_RATES:
-                nodes.rates.pop(next(iter(nodes.rates)), None)
+            nodes.rate_bytes += size
+            while nodes.rates and (len(nodes.rates) >= CACHE_RATES or nodes.rate_bytes > CACHE_RATE_BYTES):
+                old = nodes.rates.pop(next(iter(nodes.rates)))
+                nodes.rate_bytes -= old.cols.nbytes if type(old) is RateTerms else np.asarray(old).nbytes
             nodes.rates[mech] = r
         return r
 

@@ -34,8 +34,13 @@ __all__ = ["TemperatureGrid", "prepared_grid", "clear_cache", "BLOCK_T"]
 BLOCK_T = 4096
 #: Prepared grids kept (least recently used dropped first).
 CACHE_GRIDS = 16
-#: Rates kept per branch of a grid (one per mechanism instance met).
+#: Rates kept per block of a grid (one per mechanism instance met) ...
 CACHE_RATES = 64
+#: ... and at most this many bytes of them (rates evaluated node by node are full arrays; the
+#: power-law columns of Debye blocks are a few numbers per temperature)
+CACHE_RATE_BYTES = 8 * 2**20
+#: Branches' worth of nodes kept per grid (blocks count by their branches)
+CACHE_BRANCHES = 16
 
 _GRIDS: "OrderedDict[bytes, TemperatureGrid]" = OrderedDict()
 #: guards the grid cache and the per-grid dictionaries (the workbench fits in a thread)
@@ -251,7 +256,8 @@ class _BranchNodes:
     """
 
     __slots__ = ("branches", "T", "n_T", "_Trows", "u_hi", "_omega", "_wbase", "planck", "wcol", "base01", "base0u",
-                 "u0", "log_ratio", "rates", "shape", "_vg", "ones", "separable", "scale", "_scale_pow", "rule")
+                 "u0", "log_ratio", "rates", "rate_bytes", "shape", "_vg", "ones", "separable", "scale", "_scale_pow",
+                 "rule")
 
     def __init__(self, branches: tuple, T: np.ndarray):
         rule = branches[0].dispersion
@@ -287,7 +293,7 @@ class _BranchNodes:
             _planck_on_nodes(x)
             wbase *= x
             omega.setflags(write=False)  # shared with the mechanisms (and their kept powers of omega)
-            planck = wcol = None
+            planck = wcol = vg = None  # vg is rebuilt if asked for (the mean-free-path check): not kept
             base01 = wbase[:, :2] / (weights[:2] * exp_off[:2] * u_hi[:, None])
         else:
             # Debye: u = u_hi e_j and x = u x_max factor into a column and a row, so
@@ -320,6 +326,7 @@ class _BranchNodes:
         self.shape = (u_hi.size, exp_off.size)
         self.ones = _ones(exp_off.size)
         self.rates: dict = {}
+        self.rate_bytes = 0
 
     @property
     def Trows(self) -> np.ndarray:
@@ -417,9 +424,17 @@ class _BranchNodes:
     @property
     def vg(self):
         """Group velocity at the nodes [m/s]: a column (n_rows, 1) on Debye branches, else (n_rows, n_nodes)."""
-        if self._vg is None:
+        if self._vg is not None:
+            return self._vg
+        if self.separable:
             self._vg = np.repeat(np.array([b.velocity for b in self.branches]), self.n_T)[:, None]
-        return self._vg
+            return self._vg
+        u = self.u_hi[:, None] * quad._RULES[self.rule][2][None, :]
+        vg = np.empty(u.shape)
+        for i, b in enumerate(self.branches):
+            seg = self.segment(i)
+            vg[seg] = b.group_velocity_of_u(u[seg])
+        return vg
 
     def full(self):
         """u, weights, Planck weight at the nodes (rebuilt: for heat capacity and spectra)."""
@@ -483,7 +498,7 @@ class TemperatureGrid:
             pass
         n = _BranchNodes(branches, self.temperature)
         with _LOCK:
-            if len(self._nodes) >= 16:
+            while self._nodes and sum(len(k) for k in self._nodes) + len(branches) > CACHE_BRANCHES:
                 self._nodes.pop(next(iter(self._nodes)), None)
             return self._nodes.setdefault(branches, n)
 
@@ -596,12 +611,13 @@ def block_rate(mech, nodes) -> np.ndarray:
     """A mechanism's checked rate on every node of a block, zero on the branches it does not apply to."""
     if len(nodes.branches) == 1:
         return _checked_rate(mech, nodes.branch, nodes.omega, nodes.Tcol)
-    out = np.zeros(nodes.shape)
     omega, Tcol = nodes.omega, nodes.Tcol
-    for i, b in enumerate(nodes.branches):
-        if mech.applies(b):
-            seg = nodes.segment(i)
-            out[seg] = _checked_rate(mech, b, omega[seg], Tcol[seg])
+    parts = [(nodes.segment(i), _checked_rate(mech, b, omega[nodes.segment(i)], Tcol[nodes.segment(i)]))
+             for i, b in enumerate(nodes.branches) if mech.applies(b)]
+    # constant rates on every branch (a boundary): one number per row, not per node
+    out = np.zeros((nodes.shape[0], 1) if all(np.ndim(r) == 0 for _s, r in parts) else nodes.shape)
+    for seg, r in parts:
+        out[seg] = r
     return out
 
 
