@@ -36,12 +36,12 @@ _TABLES: dict = {}
 def _separable_tables(rule: str, powers_r: tuple, powers_n: tuple):
     """Tables of the power-law route for one layout of columns (kept, read-only).
 
-    Returns ``(rows, V, G, Z)``: the node rows [E_r; E_n] (rate = cols rows);
+    Returns ``(rows, V, G, Z)``: the node rows [E_r; E_n] (rate = coefs^T rows);
     the sum matrix V = wrow_j [1, E_n,l, E_n,l E_r,k] (nodes x sums), wrow_j =
     w_j e_j^3 the node factor of a Debye block's weights (see
     :class:`~kinetic.grid._BranchNodes`); G (3 x sums), which adds the
-    weighted sums into I1, I2 and I3; and Z (columns x 2), which picks the
-    resistive and Normal rates at the lowest node from the columns.
+    weighted sums into I1, I2 and I3; and Z (powers x 2), which picks the
+    resistive and Normal rates at the lowest node from the coefficients.
     """
     key = (rule, powers_r, powers_n)
     hit = _TABLES.get(key)
@@ -94,7 +94,7 @@ class _BranchContext:
     def r_res(self):
         if self._r_res is None and self._terms is not None:
             A, Er, _B, _En = self._terms
-            self._r_res = np.dot(A, Er)
+            self._r_res = np.dot(A.T, Er)
         return self._r_res
 
     @r_res.setter
@@ -105,7 +105,7 @@ class _BranchContext:
     def r_n(self):
         if self._r_n is None and self._terms is not None and self.corr:
             _A, _Er, B, En = self._terms
-            self._r_n = np.dot(B, En)
+            self._r_n = np.dot(B.T, En)
         return self._r_n
 
     @r_n.setter
@@ -125,18 +125,18 @@ class _CallawaySums:
     def _node_rates(self, nodes: _BranchNodes, mech):
         """A mechanism's rate on a block's nodes (:class:`RateTerms` or an array), kept on the grid."""
         try:
-            return nodes.rates[mech]
-        except KeyError:
-            pass
+            r = nodes.rates.get(mech)
         except TypeError:  # a mechanism with unhashable fields: not kept
             return self._new_rates(nodes, mech)
+        if r is not None:
+            return r
         r = self._new_rates(nodes, mech)
-        size = r.cols.nbytes if type(r) is RateTerms else np.asarray(r).nbytes
+        size = r.coefs.nbytes if type(r) is RateTerms else np.asarray(r).nbytes
         with _LOCK:
             nodes.rate_bytes += size
             while nodes.rates and (len(nodes.rates) >= CACHE_RATES or nodes.rate_bytes > CACHE_RATE_BYTES):
                 old = nodes.rates.pop(next(iter(nodes.rates)))
-                nodes.rate_bytes -= old.cols.nbytes if type(old) is RateTerms else np.asarray(old).nbytes
+                nodes.rate_bytes -= old.coefs.nbytes if type(old) is RateTerms else np.asarray(old).nbytes
             nodes.rates[mech] = r
         return r
 
@@ -235,44 +235,45 @@ class _CallawaySums:
     def _separable_sums(nodes: _BranchNodes, res_t: list, nrm_t: list, corr: bool):
         """:meth:`_block_sums` when every rate of a block of Debye branches comes as :class:`RateTerms`.
 
-        With A (n_rows x kr) and B (n_rows x kn) the resistive and Normal
-        columns and E_r, E_n their node rows (r_res = A E_r, r_n = B E_n), and
-        wbase = planck x wcol_i x wrow_j (see :class:`~kinetic.grid._BranchNodes`):
-        one matrix product gives tau_c^-1 = [A B] [E_r; E_n]; one more gives
-        every sum at once, M = (planck / tau_c^-1) V with
-        V = wrow_j [1, E_n,l, E_n,l E_r,k] (node x column); then, with M's
-        columns scaled by wcol [1, B_l, B_l A_k] row by row, I1 = M_0,
-        I2 = sum_l M_l and I3 = sum_lk M_lk -- the sums of the elementwise route (I2 = <r_n>,
-        I3 = <r_n r_res>) without forming r_res, r_n or their products on the
-        nodes (built only if a consumer asks). Call inside
-        ``np.errstate(all="ignore")``.
+        With A (kr x n_rows) and B (kn x n_rows) the resistive and Normal
+        coefficients and E_r, E_n their node rows (r_res = A^T E_r,
+        r_n = B^T E_n), and wbase = planck x wcol_i x wrow_j (see
+        :class:`~kinetic.grid._BranchNodes`): one matrix product gives
+        tau_c^-1 = [A; B]^T [E_r; E_n]; one more gives every sum at once,
+        M = (planck / tau_c^-1) V with V = wrow_j [1, E_n,l, E_n,l E_r,k]
+        (node x sum); then, with M's sums scaled by wcol [1, B_l, B_l A_k] row
+        by row, I1 = M_0, I2 = sum_l M_l and I3 = sum_lk M_lk -- the sums of the
+        elementwise route (I2 = <r_n>, I3 = <r_n r_res>) without forming r_res,
+        r_n or their products on the nodes (built only if a consumer asks).
+        Call inside ``np.errstate(all="ignore")``.
         """
         owners = res_t + nrm_t
-        cols, powers = _side_by_side(owners)
-        check_columns(nodes, cols, owners)
+        coefs, powers = _side_by_side(owners)
+        check_columns(nodes, coefs, owners)
         kr = sum(len(t.powers) for _m, t in res_t)
-        kn = cols.shape[1] - kr
+        kn = coefs.shape[0] - kr
         rows, V, G, Z = _separable_tables(nodes.rule, powers[:kr], powers[kr:])
         buf = nodes.scratch()
-        r_c = np.dot(cols, rows, out=buf[2])
+        r_c = np.dot(coefs.T, rows, out=buf[2])
         fp = np.divide(nodes.planck, r_c, out=buf[3])
-        M = np.dot(fp, V)
-        A, B = cols[:, :kr], cols[:, kr:]
-        M *= nodes.wcol[:, None]
+        # the sums one per row of MT (contiguous rows: the scalings below are plain vector products)
+        MT = np.dot(V.T, fp.T)
+        A, B = coefs[:kr], coefs[kr:]
+        MT *= nodes.wcol
         if kn:
-            M[:, 1:1 + kn] *= B
+            MT[1:1 + kn] *= B
             for j in range(kn):
-                blk = M[:, 1 + kn + j * kr:1 + kn + (j + 1) * kr]
+                blk = MT[1 + kn + j * kr:1 + kn + (j + 1) * kr]
                 blk *= A
-                blk *= B[:, j:j + 1]
-        I = np.dot(G, M.T)
+                blk *= B[j]
+        I = np.dot(G, MT)
         if corr:
-            rz = np.dot(cols, Z)  # r_res and r_n at the lowest node
-            if _CallawaySums._tails_negligible(nodes, I, r_c[:, 0], rz[:, 1], rz[:, 0]):
+            rz = np.dot(Z.T, coefs)  # r_res and r_n at the lowest node
+            if _CallawaySums._tails_negligible(nodes, I, r_c[:, 0], rz[1], rz[0]):
                 F1 = None
             else:
-                F1 = _CallawaySums._add_tails(nodes, I, r_c[:, :2], np.dot(B, rows[kr:, :2]),
-                                              np.dot(A, rows[:kr, :2]))
+                F1 = _CallawaySums._add_tails(nodes, I, r_c[:, :2], np.dot(B.T, rows[kr:, :2]),
+                                              np.dot(A.T, rows[:kr, :2]))
         else:
             F1 = _CallawaySums._add_tails(nodes, I, r_c[:, :2], None, None)
         ctx = _BranchContext(nodes, None, F1, r_c, corr)

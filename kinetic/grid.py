@@ -189,33 +189,34 @@ def _power_rows(rule: str, powers: tuple) -> np.ndarray:
 
 
 class RateTerms:
-    """A scattering rate on Debye nodes, kept as columns: rate[i, j] = sum_k cols[i, k] e_j^powers[k].
+    """A scattering rate on Debye nodes, kept by power: rate[i, j] = sum_k coefs[k, i] e_j^powers[k].
 
     On a Debye branch omega at node j of row i (a temperature) is
     (omega_max u_hi_i) e_j, so a rate sum_n c_n(T) omega^n
-    (:meth:`Mechanism.rate_terms`) is held by one column per power --
-    c_n(T_i) (omega_max u_hi_i)^n -- and the node rows e_j^n; all mechanisms
-    of a block of branches then sum in one matrix product. The columns are
-    checked finite and >= 0 where they are summed (:func:`check_columns`).
+    (:meth:`Mechanism.rate_terms`) is held by one row of coefficients per
+    power -- c_n(T_i) (omega_max u_hi_i)^n for every row i -- and the node
+    rows e_j^n; all mechanisms of a block of branches then sum in one matrix
+    product. The coefficients are checked finite and >= 0 where they are
+    summed (:func:`check_columns`).
     """
 
-    __slots__ = ("powers", "cols")
+    __slots__ = ("powers", "coefs")
 
-    def __init__(self, powers: tuple, cols: np.ndarray):
+    def __init__(self, powers: tuple, coefs: np.ndarray):
         self.powers = powers
-        self.cols = cols
+        self.coefs = coefs
 
     def full(self, rule: str = "debye") -> np.ndarray:
         """The rate at every node [s^-1], shape (n_rows, n_nodes)."""
-        return np.dot(self.cols, _power_rows(rule, self.powers))
+        return np.dot(self.coefs.T, _power_rows(rule, self.powers))
 
 
 def _side_by_side(owners) -> tuple:
-    """The columns of several ``(mechanism, RateTerms)`` pairs side by side, and their powers."""
+    """The coefficients of several ``(mechanism, RateTerms)`` pairs stacked (powers x rows), and their powers."""
     if len(owners) == 1:
         t = owners[0][1]
-        return t.cols, t.powers
-    return (np.concatenate([t.cols for _m, t in owners], axis=1),
+        return t.coefs, t.powers
+    return (np.concatenate([t.coefs for _m, t in owners]),
             sum((t.powers for _m, t in owners), ()))
 
 
@@ -255,8 +256,8 @@ class _BranchNodes:
     repeated calls allocate nothing big.
     """
 
-    __slots__ = ("branches", "T", "n_T", "_Trows", "u_hi", "_omega", "_wbase", "planck", "wcol", "base01", "base0u",
-                 "u0", "log_ratio", "rates", "rate_bytes", "shape", "_vg", "ones", "separable", "scale", "_scale_pow",
+    __slots__ = ("branches", "T", "n_T", "_Trows", "u_hi", "_omega", "_wbase", "planck", "wcol", "_base01", "base0u",
+                 "_u0", "log_ratio", "rates", "rate_bytes", "shape", "_vg", "ones", "separable", "scale", "_scale_pow",
                  "rule")
 
     def __init__(self, branches: tuple, T: np.ndarray):
@@ -307,8 +308,7 @@ class _BranchNodes:
             wcol = wcol.ravel()
             omega = vg = wbase = None
             # wbase / (weight u) at the two lowest nodes: wrow_j / (w_j e_j u_hi) = e_j^2 / u_hi
-            base01 = planck[:, :2] * (wcol / u_hi)[:, None]
-            base01 *= exp_off[:2] ** 2
+            base01 = None  # built on first use (the tails are usually negligible and skipped)
         self.rule = rule
         self.u_hi = u_hi
         self.separable = not sine
@@ -319,14 +319,37 @@ class _BranchNodes:
         self._wbase = wbase
         self.planck = planck
         self.wcol = wcol
-        self.base01 = base01
-        self.u0 = u_hi * exp_off[0]
-        self.base0u = base01[:, 0] * self.u0
+        self._base01 = base01
+        self._u0 = None
+        # wbase / weight at the lowest node, times u0 = u_hi e_0: the tail's scale (see _tails_negligible);
+        # on a Debye block wbase / (w_0 e_0 u_hi) = planck wcol e_0^2 / u_hi, so this is planck wcol e_0^3
+        if sine:
+            self.base0u = base01[:, 0] * (u_hi * exp_off[0])
+        else:
+            self.base0u = planck[:, 0] * wcol
+            self.base0u *= exp_off[0] ** 3
         self.log_ratio = quad.log_ratio(rule)
         self.shape = (u_hi.size, exp_off.size)
         self.ones = _ones(exp_off.size)
         self.rates: dict = {}
         self.rate_bytes = 0
+
+    @property
+    def base01(self) -> np.ndarray:
+        """wbase / (weight) at the two lowest nodes, the integrand before 1/rate, shape (n_rows, 2)."""
+        if self._base01 is None:
+            e01 = quad._RULES[self.rule][2][:2]
+            b = self.planck[:, :2] * (self.wcol / self.u_hi)[:, None]
+            b *= e01**2
+            self._base01 = b
+        return self._base01
+
+    @property
+    def u0(self) -> np.ndarray:
+        """The lowest node's reduced wavevector in every row."""
+        if self._u0 is None:
+            self._u0 = self.u_hi * quad._RULES[self.rule][2][0]
+        return self._u0
 
     @property
     def Trows(self) -> np.ndarray:
@@ -353,12 +376,12 @@ class _BranchNodes:
         return np.dot(self.wcol[:, None], (weights * exp_off**3)[None, :])
 
     def scale_powers(self, powers: tuple) -> np.ndarray:
-        """scale^n for each n of ``powers``, shape (n_rows, len(powers)), kept per tuple (read-only)."""
+        """scale^n for each n of ``powers``, shape (len(powers), n_rows), kept per tuple (read-only)."""
         pw = self._scale_pow.get(powers)
         if pw is None:
-            pw = np.empty((self.scale.size, len(powers)))
+            pw = np.empty((len(powers), self.scale.size))
             for k, n in enumerate(powers):
-                pw[:, k] = 1.0 if n == 0.0 else self.scale**n
+                pw[k] = 1.0 if n == 0.0 else self.scale**n
             pw.setflags(write=False)
             self._scale_pow[powers] = pw
         return pw
@@ -391,9 +414,9 @@ class _BranchNodes:
         """
         if not owners:
             return _sum_into(out, full)
-        cols, powers = _side_by_side(owners)
-        check_columns(self, cols, owners)
-        np.dot(cols, _power_rows(self.rule, powers), out=out)
+        coefs, powers = _side_by_side(owners)
+        check_columns(self, coefs, owners)
+        np.dot(coefs.T, _power_rows(self.rule, powers), out=out)
         for r in full:
             np.add(out, r, out=out)
         return out
@@ -645,14 +668,27 @@ def _checked_terms(mech, nodes):
                     if not n >= 0.0:  # e_j^n would grow without bound toward low frequency: checked node by node
                         return None
                     powers.append(n)
+        key = tuple(powers)
         powers = tuple(float(n) for n in powers)
-        cols = np.zeros((len(nodes.branches), nodes.n_T, len(powers)))
-        for i, terms in per:
-            for n, c in terms:
-                cols[i, :, powers.index(n)] += c
-        cols = cols.reshape(-1, len(powers))
-        if powers != (0.0,):
-            cols *= nodes.scale_powers(powers)
+        n_b, k = len(nodes.branches), len(powers)
+        if len(per) == n_b and all(len(t) == k and tuple(n for n, _c in t) == key
+                                   and all(type(c) is float for _n, c in t) for _i, t in per):
+            # every branch gives the same powers with constant coefficients (a boundary, point defects):
+            # one small table of coefficients times the kept powers of the per-row scale
+            C = np.array([[c for _n, c in t] for _i, t in per]).T  # (powers, branches)
+            if powers == (0.0,):
+                coefs = np.repeat(C, nodes.n_T, axis=1)
+            else:
+                coefs = nodes.scale_powers(powers).reshape(k, n_b, nodes.n_T) * C[:, :, None]
+                coefs = coefs.reshape(k, -1)
+        else:
+            coefs = np.zeros((k, n_b, nodes.n_T))
+            for i, terms in per:
+                for n, c in terms:
+                    coefs[key.index(n), i] += c
+            coefs = coefs.reshape(k, -1)
+            if powers != (0.0,):
+                coefs *= nodes.scale_powers(powers)
     except (KineticError, MemoryError, KeyboardInterrupt):
         raise
     except Exception as exc:
@@ -660,13 +696,13 @@ def _checked_terms(mech, nodes):
         raise ModelError(
             f"mechanism {mech.name!r} ({type(mech).__name__}) failed{where}: {type(exc).__name__}: {exc}"
         ) from exc
-    return RateTerms(powers, cols)
+    return RateTerms(powers, coefs)
 
 
-def check_columns(nodes, cols: np.ndarray, owners) -> None:
+def check_columns(nodes, coefs: np.ndarray, owners) -> None:
     """Refuse RateTerms columns that are not finite and >= 0, naming the mechanism.
 
-    ``cols`` are the columns of every RateTerms of a block side by side,
+    ``coefs`` are the coefficients of every RateTerms of a block stacked,
     ``owners`` the ``(mechanism, RateTerms)`` pairs they came from. The node
     rows e_j^n are positive and at most 1 (e_j^n for n >= 0), so finite,
     non-negative columns with a finite sum give finite, non-negative rates.
@@ -674,11 +710,11 @@ def check_columns(nodes, cols: np.ndarray, owners) -> None:
     O(n_T x nodes). A bad column is described by :func:`_checked_rate` on the
     full nodes (the mechanism, the branch, omega and T of the first bad value).
     """
-    if not cols.size or (cols.min() >= 0.0 and np.isfinite(cols.sum())):
+    if not coefs.size or (coefs.min() >= 0.0 and np.isfinite(coefs.sum())):
         return
     names = ", ".join(repr(b.name) for b in nodes.branches)
     for mech, t in owners:
-        if not (t.cols.min() >= 0.0 and np.isfinite(t.cols.sum())):
+        if not (t.coefs.min() >= 0.0 and np.isfinite(t.coefs.sum())):
             block_rate(mech, nodes)
             raise ModelError(
                 f"mechanism {mech.name!r} ({type(mech).__name__}) returned scattering rates too large to "
