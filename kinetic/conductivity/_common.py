@@ -5,7 +5,7 @@ import numpy as np
 
 from ..electronic import L0
 from ..errors import ParameterError
-from ..quantities import is_quantity, to_si
+from .. import _validate as _v
 
 #: Lorenz-number choices by name ("band" and "spb" are the same single-parabolic-band value from S).
 LORENZ_CHOICES = ("auto", "sommerfeld", "band", "spb", "kim")
@@ -27,41 +27,25 @@ _END_SLACK = 1e-9
 
 
 # ---------------------------------------------------------------------------------------------
-# units at the door
-def _si(value, unit: str, name: str):
-    """Plain numbers pass; a quantity with ``.to`` (pint) is converted to ``unit`` or refused."""
-    if is_quantity(value):
-        return np.asarray(to_si(value, unit, name), dtype=float)  # the package's one converter
-    if isinstance(value, (str, bytes)) or isinstance(value, bool):
-        raise ParameterError(f"{name} must be a number or array [{unit}], got {value!r}")
-    try:
-        return np.asarray(value, dtype=float)
-    except (TypeError, ValueError):
-        raise ParameterError(f"{name} must be a number or array [{unit}], got {value!r}") from None
+# units at the door: thin array-returning forms of the package's one checking module (kinetic._validate)
+def _si(value, unit: str, name: str) -> np.ndarray:
+    """A float array in ``unit`` (a pint quantity converted); True/False are not numbers here."""
+    if isinstance(value, bool):
+        raise ParameterError(f"{name} must be a number or array of numbers [{unit}], got {value!r}")
+    return _v.as_float_array(name, value, unit=unit)
 
 
 def _kelvin(T, name: str = "temperature") -> np.ndarray:
     """Temperatures [K]: plain numbers, or pint quantities (degC converted); finite and > 0."""
-    arr = _si(T, "K", name)
-    bad = ~np.isfinite(arr) | (arr <= 0)
-    if np.any(bad):
-        raise ParameterError(f"{name} must be finite and > 0 K, got {float(arr[bad].flat[0])!r}")
-    return arr
+    return _v.temperatures(_si(T, "K", name), name)
 
 
 def _check_positive(name: str, arr, unit: str) -> np.ndarray:
-    arr = np.asarray(arr, dtype=float)
-    bad = ~np.isfinite(arr) | (arr <= 0)
-    if np.any(bad):
-        raise ParameterError(f"{name} must be finite and > 0 [{unit}], got {float(arr[bad].flat[0])!r}")
-    return arr
+    return np.asarray(_v.positive(name, arr, unit=unit), dtype=float)
 
 
 def _check_finite(name: str, arr, unit: str) -> np.ndarray:
-    arr = np.asarray(arr, dtype=float)
-    if not np.all(np.isfinite(arr)):
-        raise ParameterError(f"{name} must be finite [{unit}], got {float(arr[~np.isfinite(arr)].flat[0])!r}")
-    return arr
+    return np.asarray(_v.finite(name, arr, unit=unit), dtype=float)
 
 
 def _frozen(arr) -> np.ndarray:
