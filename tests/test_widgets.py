@@ -38,14 +38,6 @@ pytestmark = pytest.mark.filterwarnings(
     "ignore:Passing unrecognized arguments to super\\(Toolbar\\):DeprecationWarning")
 
 
-@pytest.fixture
-def wb():
-    w = Workbench()
-    yield w
-    assert w.messages.faults == [], w.messages.faults  # no unexpected exception in any callback
-    w.close()
-
-
 def _lattice_line(w):
     w.update_plot("conductivity")
     return w.plots["conductivity"].lines["lattice"]
@@ -140,6 +132,17 @@ def test_invalid_entry_is_refused_in_plain_words(wb):
     ctl.box.value = "two microns"
     assert wb.model.params["boundary.length"] == before
     assert "expected a number" in wb.messages.last_error and "'two microns'" in wb.messages.last_error
+
+
+def test_non_number_in_a_constant_box_is_refused_in_plain_words(wb):
+    # a material constant's text box: the same refusal as a slider's box, shown on the message line
+    card = next(c for c in wb.cards.values() if c.constants)
+    key, box = next(iter(card.constants.items()))
+    before = box.value
+    box.value = "lots"
+    assert box.value == before  # the value in use is shown again
+    assert key in wb.messages.last_error and "expected a number" in wb.messages.last_error
+    assert "'lots'" in wb.messages.last_error
 
 
 # --- mechanisms -------------------------------------------------------------------------

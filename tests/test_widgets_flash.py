@@ -20,7 +20,7 @@ import numpy as np
 import pytest
 
 from kinetic import demo, load_data, parse_data, porosity
-from widgets import Workbench, _engine
+from widgets import _engine
 from widgets.series_panel import FlashOptions
 from widgets.style import esc
 
@@ -34,14 +34,6 @@ NO_DENSITY = b"# label: pellet X (invented)\nT [K], D [mm^2/s]\n300, 4.0\n400, 3
 #: an invented flash file (INVENTED numbers) with density and c_p but no relative density
 PLAIN = (b"# label: pellet Y (invented)\n# density: 2.0 g/cm^3\n# material: Mg2Si\n"
          b"T [K], D [mm^2/s], cp [J/(g K)]\n300, 4.0, 0.80\n400, 3.5, 0.85\n500, 3.1, 0.88\n")
-
-
-@pytest.fixture
-def wb():
-    w = Workbench()
-    yield w
-    assert w.messages.faults == [], w.messages.faults  # no unexpected exception in any callback
-    w.close()
 
 
 def _upload(w, *files):

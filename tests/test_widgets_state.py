@@ -33,14 +33,6 @@ OTHER = (b"# label: pellet Z (invented)\n"
          b"50, 20.0, 150, 60\n100, 12.0, 200, 80\n200, 9.0, 300, 120\n300, 7.0, 400, 160\n")
 
 
-@pytest.fixture
-def wb():
-    w = Workbench()
-    yield w
-    assert w.messages.faults == [], w.messages.faults  # no unexpected exception in any callback
-    w.close()
-
-
 def _upload(w, name, content):
     w.data_panel.upload.value = ({"name": name, "type": "text/csv", "size": len(content),
                                   "content": memoryview(content),

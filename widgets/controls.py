@@ -11,6 +11,7 @@ from __future__ import annotations
 
 import math
 from collections.abc import Callable
+from contextlib import contextmanager
 
 import ipywidgets as ipw
 
@@ -29,6 +30,34 @@ __all__ = ["MechanismCard", "ParameterControl", "slider_range"]
 
 #: steps across a slider's range; one arrow-key press moves one step.
 SLIDER_STEPS = 200
+
+
+@contextmanager
+def _muted(owner):
+    """Set widget values without the owner's observers answering (they check ``owner._mute``)."""
+    owner._mute = True
+    try:
+        yield
+    finally:
+        owner._mute = False
+
+
+def _typed_number(owner, box, text: str, shown: str, message: str, on_error: Callable | None):
+    """``float(text)``, or None after showing ``shown`` in ``box`` again and reporting ``message``.
+
+    The report goes to ``on_error`` (the workbench's message line); without one it is raised.
+    """
+    try:
+        return float(text)
+    except ValueError:
+        pass
+    with _muted(owner):
+        box.value = shown
+    err = ParameterError(message)
+    if on_error is None:
+        raise err
+    on_error(err)
+    return None
 
 
 def slider_range(p: Parameter) -> tuple:
@@ -136,12 +165,9 @@ class ParameterControl(ipw.VBox):
         v = float(value)
         self._value = v
         self._remember(v)
-        self._mute = True
-        try:
+        with _muted(self):
             self.box.value = self._show(v)
             self.slider.value = min(max(v, self.range[0]), self.range[1])
-        finally:
-            self._mute = False
         if notify and self.on_change is not None:
             self.on_change(self.key, v)
 
@@ -180,19 +206,13 @@ class ParameterControl(ipw.VBox):
         if self.is_echo(v):
             if not self._snaps_to(v, self._value):
                 # a late echo of an older value: show the value in use again
-                self._mute = True
-                try:
+                with _muted(self):
                     self.slider.value = min(max(self._value, self.range[0]), self.range[1])
-                finally:
-                    self._mute = False
             return
         self._recent = []  # a real move: older values can no longer echo back unnoticed
         self._value = v
-        self._mute = True
-        try:
+        with _muted(self):
             self.box.value = self._show(v)
-        finally:
-            self._mute = False
         if self.on_change is not None:
             self.on_change(self.key, v)
 
@@ -200,27 +220,17 @@ class ParameterControl(ipw.VBox):
         if self._mute:
             return
         text = str(change["new"]).strip()
-        try:
-            v = float(text)
-        except ValueError:
-            self._mute = True
-            try:
-                self.box.value = self._show(self._value)
-            finally:
-                self._mute = False
-            if self.on_error is not None:
-                self.on_error(ParameterError(
-                    f"{self.key} ({self.parameter.label}): expected a number such as 1.5e-6, got {text!r}"))
+        v = _typed_number(self, self.box, text, self._show(self._value),
+                          f"{self.key} ({self.parameter.label}): expected a number such as 1.5e-6, got {text!r}",
+                          self.on_error or (lambda err: None))
+        if v is None:
             return
         old = self._value
         self._value = v  # the model validates it (finite, positive, ...) via on_change
         self._remember(v)
-        self._mute = True
-        try:
+        with _muted(self):
             if math.isfinite(v):
                 self.slider.value = min(max(v, self.range[0]), self.range[1])
-        finally:
-            self._mute = False
         if self.on_change is not None:
             try:
                 self.on_change(self.key, v)
@@ -259,6 +269,7 @@ class MechanismCard(ipw.VBox):
         self.kind = mechanism.kind
         self._on_change = on_change
         self._on_toggle = on_toggle
+        self._on_error = on_error
         colour = mechanism_colour(mechanism.kind)
         swatch = ipw.HTML(
             f"<span style='display:inline-block;width:0.9em;height:0.9em;background:{colour};"
@@ -319,11 +330,8 @@ class MechanismCard(ipw.VBox):
             elif key in self.constants:
                 box = self.constants[key]
                 self._constant_values[key] = float(v)
-                self._mute = True
-                try:
+                with _muted(self):
                     box.value = f"{float(v):.6g}"
-                finally:
-                    self._mute = False
 
     _mute = False
 
@@ -345,15 +353,10 @@ class MechanismCard(ipw.VBox):
             if self._mute:
                 return
             text = str(change["new"]).strip()
-            try:
-                v = float(text)
-            except ValueError:
-                self._mute = True
-                try:
-                    self.constants[key].value = f"{self._constant_values[key]:.6g}"
-                finally:
-                    self._mute = False
-                raise ParameterError(f"{key}: expected a number such as 2.0e-29, got {text!r}") from None
+            v = _typed_number(self, self.constants[key], text, f"{self._constant_values[key]:.6g}",
+                              f"{key}: expected a number such as 2.0e-29, got {text!r}", self._on_error)
+            if v is None:
+                return
             self._constant_values[key] = v
             self._on_change(key, v)
         return handler
