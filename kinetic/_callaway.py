@@ -1,10 +1,12 @@
 """The Callaway sums of :class:`kinetic.LatticeModel` on a prepared grid, and their derivatives.
 
 Kept apart from the model's bookkeeping (:mod:`kinetic.lattice`): this is the
-engine's hot path. Per branch, the kept rates are summed into per-thread work
-arrays (on a Debye branch, those given as :class:`~kinetic.grid.RateTerms` in
-one matrix product), I1 = sum(w base / tau_c^-1), I2 and I3 follow with one product each,
-and the closed-form tails below the lowest node are added in one pass.
+engine's hot path. Per block of branches (one dispersion, rows = branch x
+temperature), either every rate comes as :class:`~kinetic.grid.RateTerms` and
+1/tau_c and the sums I1, I2, I3 are two matrix products (the power-law route),
+or the kept rates are summed on every node and I1 = sum(w base / tau_c^-1), I2
+and I3 follow with one product each; the closed-form tails below the lowest
+node are added where they matter.
 :meth:`_CallawaySums.kappa_jacobian` differentiates the same sums exactly for
 power-law parameters.
 """
@@ -17,9 +19,9 @@ import numpy as np
 from . import quadrature as quad
 from .dispersion import Branch
 from .errors import ModelError, ParameterError
-from .grid import (BLOCK_T, CACHE_RATE_BYTES, CACHE_RATES, RateTerms, TemperatureGrid, _BranchNodes, _LOCK, _cached_grid,
-                   _checked_terms, block_rate, _new_grid, _power_rows, _prepared_checked, _side_by_side,
-                   _temperature, check_columns)
+from .grid import (BLOCK_T, CACHE_RATE_BYTES, CACHE_RATES, _LOCK, RateTerms, TemperatureGrid, _BranchNodes,
+                   _cached_grid, _checked_terms, _new_grid, _power_rows, _prepared_checked, _side_by_side,
+                   _temperature, block_rate, check_coefficients, kept)
 
 #: Mean free path [m] beyond any specimen (the boundary length's upper bound is
 #: 0.1 m); see MAX_LONG_PATH_SHARE.
@@ -43,9 +45,7 @@ def _separable_tables(rule: str, powers_r: tuple, powers_n: tuple):
     weighted sums into I1, I2 and I3; and Z (powers x 2), which picks the
     resistive and Normal rates at the lowest node from the coefficients.
     """
-    key = (rule, powers_r, powers_n)
-    hit = _TABLES.get(key)
-    if hit is None:
+    def build():
         kr, kn = len(powers_r), len(powers_n)
         rows = _power_rows(rule, powers_r + powers_n)
         Er, En = rows[:kr], rows[kr:]
@@ -59,12 +59,9 @@ def _separable_tables(rule: str, powers_r: tuple, powers_n: tuple):
         Z = np.zeros((kr + kn, 2))
         Z[:kr, 0] = Er[:, 0]
         Z[kr:, 1] = En[:, 0]
-        for a in (V, G, Z):
-            a.setflags(write=False)
-        if len(_TABLES) >= 64:
-            _TABLES.pop(next(iter(_TABLES)), None)
-        hit = _TABLES[key] = (rows, V, G, Z)
-    return hit
+        return rows, V, G, Z
+
+    return kept(_TABLES, (rule, powers_r, powers_n), build)
 
 
 class _BranchContext:
@@ -80,9 +77,11 @@ class _BranchContext:
 
     __slots__ = ("nodes", "_f1", "_fp", "F1", "r_c", "corr", "_r_res", "_r_n", "_terms")
 
-    def __init__(self, nodes, f1, F1, r_c, corr):
-        self.nodes, self._f1, self.F1, self.r_c, self.corr = nodes, f1, F1, r_c, corr
-        self._fp = self._r_res = self._r_n = self._terms = None
+    def __init__(self, nodes, F1, r_c, corr, *, f1=None, r_res=None, r_n=None, fp=None, terms=None):
+        """Either ``f1``, ``r_res`` and ``r_n`` (node-by-node route) or ``fp`` = planck / tau_c^-1 and
+        ``terms`` = (A, E_r, B, E_n) (power-law route), from which those are built on first use."""
+        self.nodes, self.F1, self.r_c, self.corr = nodes, F1, r_c, corr
+        self._f1, self._r_res, self._r_n, self._fp, self._terms = f1, r_res, r_n, fp, terms
 
     @property
     def f1(self):
@@ -97,10 +96,6 @@ class _BranchContext:
             self._r_res = np.dot(A.T, Er)
         return self._r_res
 
-    @r_res.setter
-    def r_res(self, value):
-        self._r_res = value
-
     @property
     def r_n(self):
         if self._r_n is None and self._terms is not None and self.corr:
@@ -108,9 +103,26 @@ class _BranchContext:
             self._r_n = np.dot(B.T, En)
         return self._r_n
 
-    @r_n.setter
-    def r_n(self, value):
-        self._r_n = value
+
+def _grids(temperature):
+    """``(shape, grids)`` for an engine call: the kept grid of a temperature array (prepared on first use),
+    or, past :data:`BLOCK_T` temperatures, fresh grids of that many made one at a time (nothing kept, so
+    memory stays bounded). ``temperature`` may be a number, an array, a pint quantity or a grid [K]."""
+    if isinstance(temperature, TemperatureGrid):
+        return temperature.shape, (temperature,)
+    grid = _cached_grid(temperature)
+    if grid is not None:
+        return grid.shape, (grid,)
+    T = _temperature(temperature)
+    Tf = np.ascontiguousarray(np.atleast_1d(T), dtype=float).ravel()
+    if Tf.size <= BLOCK_T:
+        return np.shape(T), (_prepared_checked(Tf),)
+    return np.shape(T), (_new_grid(Tf[i:i + BLOCK_T]) for i in range(0, Tf.size, BLOCK_T))
+
+
+def _joined(pieces: list, shape: tuple) -> np.ndarray:
+    """Per-grid results end to end, shaped like the temperatures."""
+    return (pieces[0] if len(pieces) == 1 else np.concatenate(pieces)).reshape(shape)
 
 
 class _CallawaySums:
@@ -227,9 +239,7 @@ class _CallawaySums:
                     F1 = self._add_tails(nodes, I, r_c[:, :2], r_n[:, :2], r_res[:, :2])
             else:
                 F1 = self._add_tails(nodes, I, r_c[:, :2], None, None)
-        ctx = _BranchContext(nodes, f1, F1, r_c, corr)
-        ctx.r_res, ctx.r_n = r_res, r_n
-        return I, ctx
+        return I, _BranchContext(nodes, F1, r_c, corr, f1=f1, r_res=r_res, r_n=r_n)
 
     @staticmethod
     def _separable_sums(nodes: _BranchNodes, res_t: list, nrm_t: list, corr: bool):
@@ -249,7 +259,7 @@ class _CallawaySums:
         """
         owners = res_t + nrm_t
         coefs, powers = _side_by_side(owners)
-        check_columns(nodes, coefs, owners)
+        check_coefficients(nodes, coefs, owners)
         kr = sum(len(t.powers) for _m, t in res_t)
         kn = coefs.shape[0] - kr
         rows, V, G, Z = _separable_tables(nodes.rule, powers[:kr], powers[kr:])
@@ -276,10 +286,7 @@ class _CallawaySums:
                                               np.dot(A.T, rows[:kr, :2]))
         else:
             F1 = _CallawaySums._add_tails(nodes, I, r_c[:, :2], None, None)
-        ctx = _BranchContext(nodes, None, F1, r_c, corr)
-        ctx._fp = fp
-        ctx._terms = (A, rows[:kr], B, rows[kr:])
-        return I, ctx
+        return I, _BranchContext(nodes, F1, r_c, corr, fp=fp, terms=(A, rows[:kr], B, rows[kr:]))
 
     @staticmethod
     def _tails_negligible(nodes: _BranchNodes, I: np.ndarray, r_c0, r_n0, r_res0) -> bool:
@@ -397,18 +404,9 @@ class _CallawaySums:
             message names it) or nothing limits the mean free path of
             long-wavelength phonons (no boundary term).
         """
-        grid = temperature if isinstance(temperature, TemperatureGrid) else _cached_grid(temperature)
-        if grid is not None:
-            return {k: v.reshape(grid.shape) for k, v in self._parts_on_grid(grid).items()}
-        T = _temperature(temperature)
-        shape = np.shape(T)
-        Tf = np.ascontiguousarray(np.atleast_1d(T), dtype=float).ravel()
-        if Tf.size <= BLOCK_T:
-            parts = self._parts_on_grid(_prepared_checked(Tf))
-        else:
-            blocks = [self._parts_on_grid(_new_grid(Tf[i:i + BLOCK_T])) for i in range(0, Tf.size, BLOCK_T)]
-            parts = {b.name: np.concatenate([blk[b.name] for blk in blocks]) for b in self.branches}
-        return {k: v.reshape(shape) for k, v in parts.items()}
+        shape, grids = _grids(temperature)
+        pieces = [self._parts_on_grid(g) for g in grids]
+        return {b.name: _joined([p[b.name] for p in pieces], shape) for b in self.branches}
 
     def kappa(self, temperature):
         """Lattice thermal conductivity [W m^-1 K^-1] at each temperature [K].
@@ -423,18 +421,8 @@ class _CallawaySums:
         >>> round(float(m.kappa(1.0)), 4)   # Casimir limit: 1.6308 W/m/K
         1.6308
         """
-        grid = temperature if isinstance(temperature, TemperatureGrid) else _cached_grid(temperature)
-        if grid is not None:
-            return self._parts_on_grid(grid, total=True).reshape(grid.shape)
-        T = _temperature(temperature)
-        shape = np.shape(T)
-        Tf = np.ascontiguousarray(np.atleast_1d(T), dtype=float).ravel()
-        if Tf.size <= BLOCK_T:
-            k = self._parts_on_grid(_prepared_checked(Tf), total=True)
-        else:
-            k = np.concatenate([self._parts_on_grid(_new_grid(Tf[i:i + BLOCK_T]), total=True)
-                                for i in range(0, Tf.size, BLOCK_T)])
-        return k.reshape(shape)
+        shape, grids = _grids(temperature)
+        return _joined([self._parts_on_grid(g, total=True) for g in grids], shape)
 
     def kappa_jacobian(self, temperature, names: Sequence[str]):
         """Conductivity and its derivatives with respect to model parameters.
@@ -480,22 +468,17 @@ class _CallawaySums:
         for n in names:
             if n not in info:
                 raise ParameterError(f"unknown parameter {n!r}; valid names: {', '.join(info)}")
-        grid = _cached_grid(temperature)
-        if grid is not None:
-            T, shape, Tf = grid.temperature, grid.shape, grid.temperature
-        else:
-            T = _temperature(temperature)
-            shape = np.shape(T)
-            Tf = np.ascontiguousarray(np.atleast_1d(T), dtype=float).ravel()
-        if Tf.size > BLOCK_T:
-            pieces = [self.kappa_jacobian(Tf[i:i + BLOCK_T], names) for i in range(0, Tf.size, BLOCK_T)]
-            k = np.concatenate([p[0] for p in pieces])
-            J = np.concatenate([p[1] for p in pieces])
-            return k.reshape(shape), J.reshape(shape + (len(names),))
-        grid = grid or _prepared_checked(Tf)
-        J = np.zeros((Tf.size, len(names)))
+        shape, grids = _grids(temperature)
+        pieces = [self._jacobian_on_grid(g, names, info) for g in grids]
+        J = pieces[0][1] if len(pieces) == 1 else np.concatenate([p[1] for p in pieces])
+        return _joined([p[0] for p in pieces], shape), J.reshape(shape + (len(names),))
+
+    def _jacobian_on_grid(self, grid: TemperatureGrid, names: list, info: dict):
+        """(kappa, J) on one prepared grid (see :meth:`kappa_jacobian`)."""
+        n_T = grid.size
+        J = np.zeros((n_T, len(names)))
         analytic = [j for j, n in enumerate(names) if info[n] is not None]
-        kappa = np.zeros(Tf.size)
+        kappa = np.zeros(n_T)
         for block, entries, bounded in self._plan():
             I, ctx = self._block_sums(grid, block, entries)
             self._check_mean_free_path(grid, block, I[0], ctx, bounded)
@@ -503,11 +486,11 @@ class _CallawaySums:
             if analytic:
                 Jb = np.zeros((I.shape[1], len(names)))
                 self._block_jacobian(grid, block, I[0], I[1], I[2], ctx, names, analytic, info, Jb)
-                J += Jb.reshape(len(block), Tf.size, len(names)).sum(axis=0)
+                J += Jb.reshape(len(block), n_T, len(names)).sum(axis=0)
         for j, n in enumerate(names):
             if info[n] is None:
                 J[:, j] = self._difference(grid, n, self.parameter_info()[n])
-        return kappa.reshape(shape), J.reshape(shape + (len(names),))
+        return kappa, J
 
     def _block_jacobian(self, grid, branches, I1, I2, I3, ctx, names, analytic, info, J):
         """Add a block's exact derivatives d kappa / d c for the power-law parameters to J (one row per block row)."""

@@ -30,14 +30,14 @@ __all__ = ["TemperatureGrid", "prepared_grid", "clear_cache", "BLOCK_T"]
 #: Temperature arrays up to this size get a prepared grid that is kept for
 #: later calls (nodes, Planck weights and each mechanism's rates); larger
 #: arrays are done in blocks of this many temperatures with nothing kept, so
-#: memory stays bounded (a block of 4096 x 96 nodes is 3 MiB per array).
+#: memory stays bounded (4096 temperatures x 91 nodes is 2.8 MiB per array and branch).
 BLOCK_T = 4096
 #: Prepared grids kept (least recently used dropped first).
 CACHE_GRIDS = 16
 #: Rates kept per block of a grid (one per mechanism instance met) ...
 CACHE_RATES = 64
 #: ... and at most this many bytes of them (rates evaluated node by node are full arrays; the
-#: power-law columns of Debye blocks are a few numbers per temperature)
+#: power-law coefficients of Debye blocks are a few numbers per temperature)
 CACHE_RATE_BYTES = 8 * 2**20
 #: Branches' worth of nodes kept per grid (blocks count by their branches)
 CACHE_BRANCHES = 16
@@ -81,20 +81,32 @@ def _scratch(shape) -> np.ndarray:
     return buf
 
 
+def kept(table: dict, key, build, limit: int = 64):
+    """``table[key]``, built by ``build()`` on first use and frozen (read-only arrays); oldest dropped past ``limit``.
+
+    The engine's small constant tables (node rows, series tables, branch
+    constants) are kept this way, keyed by what they depend on.
+    """
+    hit = table.get(key)
+    if hit is None:
+        hit = build()
+        for a in (hit if isinstance(hit, tuple) else (hit,)):
+            a.setflags(write=False)
+        if len(table) >= limit:
+            table.pop(next(iter(table)), None)
+        table[key] = hit
+    return hit
+
+
 _ONES: dict = {}
 
 
 def _ones(n: int) -> np.ndarray:
     """A read-only vector of n ones (row sums as matrix-vector products), kept per size."""
-    v = _ONES.get(n)
-    if v is None:
-        v = np.ones(n)
-        v.setflags(write=False)
-        _ONES[n] = v
-    return v
+    return kept(_ONES, n, lambda: np.ones(n))
 
 
-def _planck_on_nodes(x, tmp=None):
+def _planck_on_nodes(x):
     """x^2 e^x / (e^x - 1)^2 = ((x/2) / sinh(x/2))^2 in place in ``x`` (0 < x <= X_CUT on the nodes).
 
     The sinh form has no cancellation at small x and no overflow for the
@@ -102,7 +114,7 @@ def _planck_on_nodes(x, tmp=None):
     is the general version (checked against mpmath in tests).
     """
     x *= 0.5
-    s = np.sinh(x, out=tmp)
+    s = np.sinh(x)
     x /= s
     x *= x
     return x
@@ -150,11 +162,8 @@ def _planck_debye(X: np.ndarray, rule: str) -> np.ndarray:
     j0 = int(np.searchsorted(exp_off, PLANCK_SERIES_X / X.max(), side="right")) if n_rows else 0
     p = np.empty((n_rows, n))
     if j0:
-        table = _SERIES_ROWS.get(rule)
-        if table is None:
-            k2 = 2.0 * np.arange(_PLANCK_A.size)
-            table = _SERIES_ROWS[rule] = _PLANCK_A[:, None] * exp_off[None, :] ** k2[:, None]
-            table.setflags(write=False)
+        k2 = 2.0 * np.arange(_PLANCK_A.size)
+        table = kept(_SERIES_ROWS, rule, lambda: _PLANCK_A[:, None] * exp_off ** k2[:, None])
         Xp = np.empty((_PLANCK_A.size, n_rows))  # X^(2k), k = 0.. (a product with its transpose goes to BLAS as is)
         Xp[0] = 1.0
         np.multiply(X, X, out=Xp[1])
@@ -174,18 +183,8 @@ _ROWS: dict = {}
 
 def _power_rows(rule: str, powers: tuple) -> np.ndarray:
     """e_j^n of a rule's node offsets e_j = u_j / u_hi, one row per power in ``powers`` (kept, read-only)."""
-    key = (rule, powers)
-    rows = _ROWS.get(key)
-    if rows is None:
-        e = quad._RULES[rule][2]
-        rows = np.empty((len(powers), e.size))
-        for k, n in enumerate(powers):
-            rows[k] = 1.0 if n == 0.0 else e**n
-        rows.setflags(write=False)
-        if len(_ROWS) >= 64:
-            _ROWS.pop(next(iter(_ROWS)), None)
-        _ROWS[key] = rows
-    return rows
+    e = quad._RULES[rule][2]
+    return kept(_ROWS, (rule, powers), lambda: np.array([e**n if n else np.ones(e.size) for n in powers]))
 
 
 class RateTerms:
@@ -197,7 +196,7 @@ class RateTerms:
     power -- c_n(T_i) (omega_max u_hi_i)^n for every row i -- and the node
     rows e_j^n; all mechanisms of a block of branches then sum in one matrix
     product. The coefficients are checked finite and >= 0 where they are
-    summed (:func:`check_columns`).
+    summed (:func:`check_coefficients`).
     """
 
     __slots__ = ("powers", "coefs")
@@ -226,19 +225,14 @@ _CONSTANTS: dict = {}
 def _block_constants(branches: tuple) -> tuple:
     """Per-branch constants of a block as (n_b, 1) columns, kept: (hbar omega_max / kB [K], pref [W m^-1 K^-1 s],
     pref v^2, omega_max [rad/s]) with pref = p q_max^3 kB / (6 pi^2)."""
-    hit = _CONSTANTS.get(branches)
-    if hit is None:
+    def build():
         theta = np.array([[hbar * b.omega_max / kB] for b in branches])
         pref = np.array([[b.polarizations * b.q_max**3 * kB / (6.0 * np.pi**2)] for b in branches])
         pv2 = pref * np.array([[b.velocity**2] for b in branches])
         wmax = np.array([[b.omega_max] for b in branches])
-        hit = (theta, pref, pv2, wmax)
-        for a in hit:
-            a.setflags(write=False)
-        if len(_CONSTANTS) >= 64:
-            _CONSTANTS.pop(next(iter(_CONSTANTS)), None)
-        _CONSTANTS[branches] = hit
-    return hit
+        return theta, pref, pv2, wmax
+
+    return kept(_CONSTANTS, branches, build)
 
 
 class _BranchNodes:
@@ -278,17 +272,13 @@ class _BranchNodes:
         self._Trows = T if n_b == 1 else None
         if sine:
             u = u_hi[:, None] * exp_off[None, :]
-            omega = np.empty(u.shape)
-            vg = np.empty(u.shape)
-            for i, b in enumerate(branches):
-                seg = slice(i * n_T, (i + 1) * n_T)
-                omega[seg] = b.omega_of_u(u[seg])
-                vg[seg] = b.group_velocity_of_u(u[seg])
+            omega = self._by_branch("omega_of_u", u)
+            vg = self._by_branch("group_velocity_of_u", u)
             wbase = u * u
             wbase *= u
             wbase *= vg
             wbase *= vg
-            wbase *= (pref * np.ones(n_T)).reshape(-1, 1) * weights[None, :]
+            wbase *= np.repeat(pref, n_T)[:, None] * weights[None, :]
             x = omega * (hbar / kB)
             x /= self.Trows[:, None]
             _planck_on_nodes(x)
@@ -307,7 +297,6 @@ class _BranchNodes:
             wcol *= pv2
             wcol = wcol.ravel()
             omega = vg = wbase = None
-            # wbase / (weight u) at the two lowest nodes: wrow_j / (w_j e_j u_hi) = e_j^2 / u_hi
             base01 = None  # built on first use (the tails are usually negligible and skipped)
         self.rule = rule
         self.u_hi = u_hi
@@ -336,7 +325,10 @@ class _BranchNodes:
 
     @property
     def base01(self) -> np.ndarray:
-        """wbase / (weight) at the two lowest nodes, the integrand before 1/rate, shape (n_rows, 2)."""
+        """wbase / (weight) at the two lowest nodes, the integrand before 1/rate, shape (n_rows, 2).
+
+        On a Debye block wbase / (w_j e_j u_hi) = planck wcol e_j^2 / u_hi.
+        """
         if self._base01 is None:
             e01 = quad._RULES[self.rule][2][:2]
             b = self.planck[:, :2] * (self.wcol / self.u_hi)[:, None]
@@ -407,15 +399,15 @@ class _BranchNodes:
     def assemble(self, out: np.ndarray, full: list, owners: list) -> np.ndarray:
         """Sum of rates on the nodes: :class:`RateTerms` in one matrix product, plus full arrays.
 
-        ``owners`` holds ``(mechanism, RateTerms)`` pairs (their columns are
-        checked here, see :func:`check_columns`), ``full`` checked arrays.
+        ``owners`` holds ``(mechanism, RateTerms)`` pairs (their coefficients are
+        checked here, see :func:`check_coefficients`), ``full`` checked arrays.
         ``out`` receives the sum unless a single full-shape array is the
         whole of it (then that is returned, read only from here on).
         """
         if not owners:
             return _sum_into(out, full)
         coefs, powers = _side_by_side(owners)
-        check_columns(self, coefs, owners)
+        check_coefficients(self, coefs, owners)
         np.dot(coefs.T, _power_rows(self.rule, powers), out=out)
         for r in full:
             np.add(out, r, out=out)
@@ -452,12 +444,15 @@ class _BranchNodes:
         if self.separable:
             self._vg = np.repeat(np.array([b.velocity for b in self.branches]), self.n_T)[:, None]
             return self._vg
-        u = self.u_hi[:, None] * quad._RULES[self.rule][2][None, :]
-        vg = np.empty(u.shape)
+        return self._by_branch("group_velocity_of_u", self.u_hi[:, None] * quad._RULES[self.rule][2][None, :])
+
+    def _by_branch(self, method: str, u: np.ndarray) -> np.ndarray:
+        """``branch.<method>(u)`` on each branch's rows of ``u`` (a sine block's omega or group velocity)."""
+        out = np.empty(u.shape)
         for i, b in enumerate(self.branches):
             seg = self.segment(i)
-            vg[seg] = b.group_velocity_of_u(u[seg])
-        return vg
+            out[seg] = getattr(b, method)(u[seg])
+        return out
 
     def full(self):
         """u, weights, Planck weight at the nodes (rebuilt: for heat capacity and spectra)."""
@@ -635,8 +630,8 @@ def block_rate(mech, nodes) -> np.ndarray:
     if len(nodes.branches) == 1:
         return _checked_rate(mech, nodes.branch, nodes.omega, nodes.Tcol)
     omega, Tcol = nodes.omega, nodes.Tcol
-    parts = [(nodes.segment(i), _checked_rate(mech, b, omega[nodes.segment(i)], Tcol[nodes.segment(i)]))
-             for i, b in enumerate(nodes.branches) if mech.applies(b)]
+    segs = [(nodes.segment(i), b) for i, b in enumerate(nodes.branches) if mech.applies(b)]
+    parts = [(seg, _checked_rate(mech, b, omega[seg], Tcol[seg])) for seg, b in segs]
     # constant rates on every branch (a boundary): one number per row, not per node
     out = np.zeros((nodes.shape[0], 1) if all(np.ndim(r) == 0 for _s, r in parts) else nodes.shape)
     for seg, r in parts:
@@ -647,10 +642,10 @@ def block_rate(mech, nodes) -> np.ndarray:
 def _checked_terms(mech, nodes):
     """A mechanism's rate on a block of Debye branches as :class:`RateTerms`, or None when it has no such form.
 
-    One column per power met on any branch of the block (zero on rows of
-    branches without it, or that the mechanism does not apply to). The
-    columns are checked finite and >= 0 where the rates are summed, all
-    mechanisms at once (:func:`check_columns`); call inside
+    One row of coefficients per power met on any branch of the block (zero on
+    the rows of branches without it, or that the mechanism does not apply
+    to). They are checked finite and >= 0 where the rates are summed, all
+    mechanisms at once (:func:`check_coefficients`); call inside
     ``np.errstate(all="ignore")``.
     """
     branch = None
@@ -662,33 +657,21 @@ def _checked_terms(mech, nodes):
             terms = mech.rate_terms(branch, nodes.T)
             if terms is None:
                 return None
-            per.append((i, terms))
+            terms = [(float(n), c) for n, c in terms]
             for n, _c in terms:
+                if not n >= 0.0:  # e_j^n would grow without bound toward low frequency: checked node by node
+                    return None
                 if n not in powers:
-                    if not n >= 0.0:  # e_j^n would grow without bound toward low frequency: checked node by node
-                        return None
                     powers.append(n)
-        key = tuple(powers)
-        powers = tuple(float(n) for n in powers)
-        n_b, k = len(nodes.branches), len(powers)
-        if len(per) == n_b and all(len(t) == k and tuple(n for n, _c in t) == key
-                                   and all(type(c) is float for _n, c in t) for _i, t in per):
-            # every branch gives the same powers with constant coefficients (a boundary, point defects):
-            # one small table of coefficients times the kept powers of the per-row scale
-            C = np.array([[c for _n, c in t] for _i, t in per]).T  # (powers, branches)
-            if powers == (0.0,):
-                coefs = np.repeat(C, nodes.n_T, axis=1)
-            else:
-                coefs = nodes.scale_powers(powers).reshape(k, n_b, nodes.n_T) * C[:, :, None]
-                coefs = coefs.reshape(k, -1)
-        else:
-            coefs = np.zeros((k, n_b, nodes.n_T))
-            for i, terms in per:
-                for n, c in terms:
-                    coefs[key.index(n), i] += c
-            coefs = coefs.reshape(k, -1)
-            if powers != (0.0,):
-                coefs *= nodes.scale_powers(powers)
+            per.append((i, terms))
+        powers = tuple(powers)
+        coefs = np.zeros((len(powers), len(nodes.branches), nodes.n_T))
+        for i, terms in per:
+            for n, c in terms:
+                coefs[powers.index(n), i] += c
+        coefs = coefs.reshape(len(powers), -1)
+        if powers != (0.0,):
+            coefs *= nodes.scale_powers(powers)
     except (KineticError, MemoryError, KeyboardInterrupt):
         raise
     except Exception as exc:
@@ -699,15 +682,15 @@ def _checked_terms(mech, nodes):
     return RateTerms(powers, coefs)
 
 
-def check_columns(nodes, coefs: np.ndarray, owners) -> None:
-    """Refuse RateTerms columns that are not finite and >= 0, naming the mechanism.
+def check_coefficients(nodes, coefs: np.ndarray, owners) -> None:
+    """Refuse RateTerms coefficients that are not finite and >= 0, naming the mechanism.
 
     ``coefs`` are the coefficients of every RateTerms of a block stacked,
     ``owners`` the ``(mechanism, RateTerms)`` pairs they came from. The node
     rows e_j^n are positive and at most 1 (e_j^n for n >= 0), so finite,
-    non-negative columns with a finite sum give finite, non-negative rates.
-    Two reductions over n_rows x k numbers: the check costs O(n_T), not
-    O(n_T x nodes). A bad column is described by :func:`_checked_rate` on the
+    non-negative coefficients with a finite sum give finite, non-negative
+    rates. Two reductions over k x n_rows numbers: the check costs O(n_T),
+    not O(n_T x nodes). A bad one is described by :func:`_checked_rate` on the
     full nodes (the mechanism, the branch, omega and T of the first bad value).
     """
     if not coefs.size or (coefs.min() >= 0.0 and np.isfinite(coefs.sum())):

@@ -245,3 +245,24 @@ def test_planck_weight_on_debye_nodes_matches_mpmath():
     np.testing.assert_allclose(P, ref, rtol=4e-15)
     # both forms are used: at X = 46 the series covers the columns with x <= 0.2, sinh the rest
     assert 0 < np.sum(x[0] <= grid.PLANCK_SERIES_X) < e.size
+
+
+def test_every_engine_door_takes_temperatures_the_same_way():
+    # kappa, kappa_parts and kappa_jacobian share one temperature door: a kept grid object, a plain
+    # array and an array longer than BLOCK_T (done on fresh grids, block by block) give the same numbers
+    m = _model()
+    T = np.geomspace(1.0, 2000.0, 40)
+    g = lattice.prepared_grid(T)
+    names = ["umklapp.B", "boundary.length"]
+    k_g, J_g = m.kappa_jacobian(g, names)
+    k_a, J_a = m.kappa_jacobian(T, names)
+    np.testing.assert_array_equal(k_g, k_a)
+    np.testing.assert_array_equal(J_g, J_a)
+    np.testing.assert_array_equal(m.kappa(g), k_a)
+    long = np.tile(T, lattice.BLOCK_T // T.size + 1)
+    k_long, J_long = m.kappa_jacobian(long, names)
+    assert J_long.shape == (long.size, 2)
+    # 1e-12: the same sums on grids of other lengths (matrix products may group additions differently)
+    np.testing.assert_allclose(k_long[:T.size], k_a, rtol=1e-12)
+    np.testing.assert_allclose(J_long[-T.size:], J_a, rtol=1e-12)
+    np.testing.assert_allclose(sum(m.kappa_parts(long).values()), m.kappa(long), rtol=1e-12)
