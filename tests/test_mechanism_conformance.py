@@ -209,7 +209,10 @@ def test_applies_to_on_one_branch_of_a_block():
 
 
 # ------------------------------------------------------------------ broken mechanisms
-def _broken(kind_name, value):
+def _broken(kind_name, value, form="rate"):
+    """A mechanism class whose rate is ``value`` above 1e12 rad/s (``form="rate"``) or whose power-law
+    coefficient is ``value`` above 100 K (``form="terms"``)."""
+
     @dataclass(frozen=True)
     class Broken(Mechanism):
         C: float = 1.0
@@ -221,11 +224,18 @@ def _broken(kind_name, value):
         colour: ClassVar[str] = "#000000"
         _spec: ClassVar[dict] = {"C": _Spec("", "strength C", (0.1, 10.0))}
 
+    if form == "rate":
         def rate(self, omega, T, branch):
             omega = np.asarray(omega, dtype=float)
-            r = self.C * omega * 1e-3
-            return np.where(omega > 1e12, value, r)
+            return np.where(omega > 1e12, value, self.C * omega * 1e-3)
 
+        Broken.rate = rate
+    else:
+        def rate_terms(self, branch, T):
+            T = np.asarray(T, dtype=float)
+            return ((1.0, np.where(T > 100.0, value, self.C * 1e-3)),)
+
+        Broken.rate_terms = rate_terms
     return Broken
 
 
@@ -245,30 +255,11 @@ def test_broken_mechanism_is_refused_with_its_name(value, word):
     assert "broken_rate" not in MECHANISMS
 
 
-def _broken_terms(kind_name, value):
-    @dataclass(frozen=True)
-    class BrokenTerms(Mechanism):
-        C: float = 1.0
-        name: str = kind_name
-        applies_to: tuple | None = None
-
-        kind: ClassVar[str] = kind_name
-        label: ClassVar[str] = "Deliberately broken power law (test)"
-        colour: ClassVar[str] = "#000001"
-        _spec: ClassVar[dict] = {"C": _Spec("", "strength C", (0.1, 10.0))}
-
-        def rate_terms(self, branch, T):
-            T = np.asarray(T, dtype=float)
-            return ((1.0, np.where(T > 100.0, value, self.C * 1e-3)),)
-
-    return BrokenTerms
-
-
 @pytest.mark.parametrize("value, word", [(np.nan, "NaN"), (-1.0, "negative"), (np.inf, "infinite")])
-def test_broken_power_law_columns_are_refused_with_their_name(value, word):
-    # the power-law route checks columns, not nodes; a bad one is still described at a node, by name
-    m = BASE.with_mechanism(_broken_terms("broken_terms", value)())
-    with pytest.raises(ModelError, match=rf"mechanism 'broken_terms' \(BrokenTerms\) returned an? {word} scattering "
+def test_broken_power_law_coefficients_are_refused_with_their_name(value, word):
+    # the power-law route checks coefficients, not nodes; a bad one is still described at a node, by name
+    m = BASE.with_mechanism(_broken("broken_terms", value, form="terms")())
+    with pytest.raises(ModelError, match=rf"mechanism 'broken_terms' \(Broken\) returned an? {word} scattering "
                                          r"rate .* at omega = .*, T = 300 K on branch 'L'"):
         m.kappa([10.0, 300.0])
     assert np.all(np.isfinite(m.kappa([10.0, 50.0])))
