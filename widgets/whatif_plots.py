@@ -11,23 +11,26 @@ from .figures import set_band as _set_band
 __all__ = ["CurvesPlot", "MapPlot"]
 
 
+def _set_axes(plot: Plot, xlabel: str, ylabel: str, title: str, xlog: bool, ylog: bool) -> None:
+    """Labels, title, file name and log scales (with light log ticks) of a what-if plot."""
+    plot.file_stem = plot.name.replace("-", "_")
+    ax = plot.ax
+    for on, axis, set_scale in ((xlog, ax.xaxis, ax.set_xscale), (ylog, ax.yaxis, ax.set_yscale)):
+        if on:
+            set_scale("log")
+            _light_log_axis(axis)
+    ax.set_xlabel(xlabel)
+    ax.set_ylabel(ylabel)
+    plot.title = plot.set_title(title)
+
+
 class CurvesPlot(Plot):
     """A few named curves against one variable, with optional bands (what-if sweeps)."""
 
     def __init__(self, name: str, xlabel: str, ylabel: str, title: str, *, xlog=False, ylog=False,
                  width: float = 4.7, height: float = 3.1):
         super().__init__(name, width, height)
-        self.file_stem = name.replace("-", "_")
-        ax = self.ax
-        if xlog:
-            ax.set_xscale("log")
-            _light_log_axis(ax.xaxis)
-        if ylog:
-            ax.set_yscale("log")
-            _light_log_axis(ax.yaxis)
-        ax.set_xlabel(xlabel)
-        ax.set_ylabel(ylabel)
-        self.title = self.set_title(title)
+        _set_axes(self, xlabel, ylabel, title, xlog, ylog)
         self.lines: dict = {}
         self.bands: dict = {}
         self.markers: dict = {}
@@ -102,15 +105,8 @@ class MapPlot(Plot):
     def __init__(self, name: str, xlabel: str, ylabel: str, clabel: str, title: str, *, xlog=False,
                  width: float = 4.7, height: float = 3.1):
         super().__init__(name, width, height)
-        self.file_stem = name.replace("-", "_")
         self.fig.subplots_adjust(right=0.84)
-        ax = self.ax
-        if xlog:
-            ax.set_xscale("log")
-            _light_log_axis(ax.xaxis)
-        ax.set_xlabel(xlabel)
-        ax.set_ylabel(ylabel)
-        self.title = self.set_title(title)
+        _set_axes(self, xlabel, ylabel, title, xlog, False)
         self.mesh = None
         self.cbar = None
         self.clabel = clabel
