@@ -76,47 +76,52 @@ def scattering_exponent(scattering) -> float:
     return lam
 
 
-def _seebeck_reduced(eta: np.ndarray, lam: float) -> np.ndarray:
-    """|S| / (kB/e) of the SPB model (flat eta)."""
+def _two_regimes(eta, below, above) -> np.ndarray:
+    """``below(eta)`` where eta < _ETA_ASYM (Fermi integrals), ``above(eta)`` elsewhere (the Sommerfeld series)."""
     eta = np.ravel(eta)
     out = np.empty(eta.size)
     hi = eta >= _ETA_ASYM
     lo = ~hi
     if lo.any():
-        e = eta[lo]
-        f0, f1 = _fermi_scaled((lam, lam + 1.0), e)
-        out[lo] = (2.0 + lam) * f1 / ((1.0 + lam) * f0) - e
+        out[lo] = below(eta[lo])
     if hi.any():
-        # eta (A_(l+1) - A_l) / A_l, the difference taken coefficient by coefficient
-        e = eta[hi]
-        da = _sommerfeld_coeffs(lam + 1.0) - _sommerfeld_coeffs(lam)
         with np.errstate(under="ignore"):
-            u = e ** -2.0
-            out[hi] = e * np.polynomial.polynomial.polyval(u, da) / _asym_series(lam, u)
+            out[hi] = above(eta[hi])
     return out
+
+
+def _seebeck_reduced(eta: np.ndarray, lam: float) -> np.ndarray:
+    """|S| / (kB/e) of the SPB model (flat eta)."""
+
+    def below(e):
+        f0, f1 = _fermi_scaled((lam, lam + 1.0), e)
+        return (2.0 + lam) * f1 / ((1.0 + lam) * f0) - e
+
+    def above(e):
+        # eta (A_(l+1) - A_l) / A_l, the difference taken coefficient by coefficient
+        da = _sommerfeld_coeffs(lam + 1.0) - _sommerfeld_coeffs(lam)
+        u = e ** -2.0
+        return e * np.polynomial.polynomial.polyval(u, da) / _asym_series(lam, u)
+
+    return _two_regimes(eta, below, above)
 
 
 def _lorenz_reduced(eta: np.ndarray, lam: float) -> np.ndarray:
     """L / (kB/e)^2 of the SPB model (flat eta)."""
-    eta = np.ravel(eta)
-    out = np.empty(eta.size)
-    hi = eta >= _ETA_ASYM
-    lo = ~hi
-    if lo.any():
-        f0, f1, f2 = _fermi_scaled((lam, lam + 1.0, lam + 2.0), eta[lo])
-        out[lo] = ((1.0 + lam) * (3.0 + lam) * f0 * f2 - (2.0 + lam) ** 2 * f1 ** 2) / (
-            (1.0 + lam) ** 2 * f0 ** 2
-        )
-    if hi.any():
+
+    def below(e):
+        f0, f1, f2 = _fermi_scaled((lam, lam + 1.0, lam + 2.0), e)
+        return ((1.0 + lam) * (3.0 + lam) * f0 * f2 - (2.0 + lam) ** 2 * f1 ** 2) / ((1.0 + lam) ** 2 * f0 ** 2)
+
+    def above(e):
         # eta^2 (A_l A_(l+2) - A_(l+1)^2) / A_l^2 with the product series formed
         # coefficient by coefficient, so the leading terms cancel exactly.
-        e = eta[hi]
-        with np.errstate(under="ignore"):
-            u = e ** -2.0
+        u = e ** -2.0
         a0, a1, a2 = (_sommerfeld_coeffs(lam + d) for d in (0.0, 1.0, 2.0))
         b = (np.convolve(a0, a2) - np.convolve(a1, a1))[: _K_ASYM + 1]
-        out[hi] = np.polynomial.polynomial.polyval(u, b[1:]) / _asym_series(lam, u) ** 2
-    return out
+        return np.polynomial.polynomial.polyval(u, b[1:]) / _asym_series(lam, u) ** 2
+
+    return _two_regimes(eta, below, above)
 
 
 def seebeck_spb(eta, scattering="acoustic"):
